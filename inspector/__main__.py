@@ -1,0 +1,7 @@
+"""Allow ``python -m inspector``."""
+
+import sys
+
+from inspector.cli import main
+
+sys.exit(main())
