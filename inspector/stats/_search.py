@@ -68,47 +68,83 @@ def exact_binom_cdf(x: int, m: int, p: Fraction) -> Fraction | None:
     )
 
 
-def smallest_true(pred: Callable[[int], bool], lo: int, hi: int, guess: int) -> int:
-    """Smallest k in [lo, hi] with ``pred(k)``; ``pred`` is False then True.
+def smallest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) -> int:
+    """Smallest k in [lo, hi] where ``probe`` says True; it is False then True.
 
-    ``pred(hi)`` must be True. Starts at ``guess`` and gallops outward in
-    doubling steps until the answer is bracketed, then bisects, so a good
-    guess costs only a handful of evaluations even for hi ~ 10^9.
+    ``probe(k)`` returns a bool, or ``(bool, score)`` with a float score
+    that falls through 0 where the answer flips (for example
+    log Pa - log beta); with scores the bracket is narrowed by
+    interpolation (regula falsi, Illinois variant) instead of halving.
+    The probe at ``hi`` must be True. The search starts at ``guess`` and
+    gallops outward in doubling steps until the answer is bracketed, so a
+    good guess costs only a handful of probes even for hi ~ 10^9.
     """
     if lo >= hi:
         return hi
+    cache: dict[int, tuple[bool, float | None]] = {}
+
+    def ask(k: int) -> bool:
+        if k not in cache:
+            r = probe(k)
+            cache[k] = (bool(r[0]), float(r[1])) if isinstance(r, tuple) else (bool(r), None)
+        return cache[k][0]
+
     g = min(max(guess, lo), hi)
-    step = max(1, g >> 7)
-    if pred(g):
+    step = max(1, g >> 6)
+    if ask(g):
         b = g
         a = g - step
-        while a >= lo and pred(a):
+        while a >= lo and ask(a):
             b = a
             step *= 2
             a = b - step
-        a = max(a, lo - 1)
+        if a < lo:
+            a = lo - 1
     else:
         a = g
         b = g + step
-        while b < hi and not pred(b):
+        while b < hi and not ask(b):
             a = b
             step *= 2
             b = a + step
         b = min(b, hi)
-    # now pred(a) is False (or a == lo - 1) and pred(b) is True
+        ask(b)
+    # now the answer lies in (a, b]: probe(a) False (or a == lo - 1), probe(b) True
+    sa = cache.get(a, (False, None))[1]
+    sb = cache[b][1]
+    kept = 0  # +1 when a was kept twice, -1 when b was (Illinois halving)
     while b - a > 1:
         mid = (a + b) // 2
-        if pred(mid):
-            b = mid
+        if sa is not None and sb is not None and math.isfinite(sa) and math.isfinite(sb) and sa > sb:
+            t = sa / (sa - sb)
+            mid = min(max(a + int(round(t * (b - a))), a + 1), b - 1)
+        if ask(mid):
+            b, sb = mid, cache[mid][1]
+            if kept == -1 and sa is not None:
+                sa *= 0.5
+            kept = -1
         else:
-            a = mid
+            a, sa = mid, cache[mid][1]
+            if kept == 1 and sb is not None:
+                sb *= 0.5
+            kept = 1
     return b
 
 
-def largest_true(pred: Callable[[int], bool], lo: int, hi: int, guess: int) -> int:
-    """Largest k in [lo, hi] with ``pred(k)``; ``pred`` is True then False.
+def largest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) -> int:
+    """Largest k in [lo, hi] where ``probe`` says True; it is True then False.
 
-    ``pred(lo)`` must be True.
+    ``probe`` as in ``smallest_true`` but with the sense reversed: a score,
+    if given, falls through 0 where the answer turns False. ``probe(lo)``
+    must be True.
     """
-    # the smallest k with "not pred" in [lo + 1, hi + 1], minus one
-    return smallest_true(lambda k: k > hi or not pred(k), lo + 1, hi + 1, guess + 1) - 1
+
+    def flipped(k: int):
+        if k > hi:
+            return True, -math.inf
+        r = probe(k)
+        if isinstance(r, tuple):
+            return (not r[0]), r[1]
+        return not r
+
+    return smallest_true(flipped, lo + 1, hi + 1, guess + 1) - 1

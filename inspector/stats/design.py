@@ -158,11 +158,10 @@ def _design_lot(N, aql, rql, alpha, beta) -> PlanDesign:
         if c + 1 >= N:
             break
 
-        def meets_rql(n: int, c=c) -> bool:
-            return (
-                _search.compare(pa(D2, n, c), beta, lambda: _search.exact_lot_cdf(c, N, D2, n))
-                <= 0
-            )
+        def meets_rql(n: int, c=c):
+            value = pa(D2, n, c)
+            ok = _search.compare(value, beta, lambda: _search.exact_lot_cdf(c, N, D2, n)) <= 0
+            return ok, _log_ratio(value, beta_f)
 
         lo = max(c + 1, n_prev)
         guess = _guess_n(c, beta_f, D2 / N, N)
@@ -226,16 +225,15 @@ def _design_process(N, aql, rql, alpha, beta) -> PlanDesign:
     c = 0
     while True:
 
-        def meets_rql(n: int, c=c) -> bool:
-            return (
-                _search.compare(pa(p2f, n, c), beta, lambda: _search.exact_binom_cdf(c, n, p2))
-                <= 0
-            )
+        def meets_rql(n: int, c=c):
+            value = pa(p2f, n, c)
+            ok = _search.compare(value, beta, lambda: _search.exact_binom_cdf(c, n, p2)) <= 0
+            return ok, _log_ratio(value, beta_f)
 
         lo = max(c + 1, n_prev)
         guess = max(lo, _guess_n(c, beta_f, p2f, None))
         hi = max(guess, lo)
-        while not meets_rql(hi):
+        while not meets_rql(hi)[0]:
             hi *= 2
             if hi > _PROCESS_MAX_N:
                 raise ValueError(
@@ -268,6 +266,11 @@ def _design_process(N, aql, rql, alpha, beta) -> PlanDesign:
         defectives_at_aql=None,
         defectives_at_rql=None,
     )
+
+
+def _log_ratio(value: float, target: float) -> float:
+    """log(value / target), the interpolation score of the searches."""
+    return math.log(value / target) if value > 0 else -math.inf
 
 
 def _guess_n(c: int, beta: float, p2: float, N: int | None) -> int:

@@ -47,6 +47,7 @@ __all__ = [
     "oc_double",
     "aoql_lot",
     "aoql_process",
+    "aoql_double",
     "rql_lot",
     "rql_process",
     "aql_lot",
@@ -229,8 +230,13 @@ def aoql_lot(N: int, n: int, c: int) -> tuple[float, int]:
             cache[D] = aoq_lot_scalar(N, n, c, D)
         return cache[D]
 
+    def falling(D: int):
+        here, after = aoq(D), aoq(D + 1)
+        score = math.log(after / here) if here > 0 and after > 0 else -math.inf
+        return after <= here, score
+
     guess = int(poisson_peak(c) * N / n)
-    peak = _search.smallest_true(lambda D: aoq(D + 1) <= aoq(D), 1, N - 1, guess)
+    peak = _search.smallest_true(falling, 1, N - 1, guess)
     best = max(range(max(1, peak - 1), min(N, peak + 1) + 1), key=aoq)
     return aoq(best), best
 
@@ -336,6 +342,24 @@ def oc_double(N: int, plan: DoublePlan, D) -> OCCurve:
     )
 
 
+def aoql_double(N: int, plan: DoublePlan) -> tuple[float, int]:
+    """(AOQL, D where it occurs) for a double plan, exact finite-lot model.
+
+    AOQ is evaluated on a grid of 129 values of D, then on a finer grid
+    between the best point's neighbours, until the grid step is one unit.
+    """
+    check_double(N, plan)
+    top = rql_lot(N, plan.n1, plan.c2, Fraction(1, 10**6)) or N
+    a, b = 0, min(N, max(top, plan.c2 + 2))
+    while True:
+        grid = np.unique(np.linspace(a, b, 129).round().astype(np.int64))
+        aoq = oc_double(N, plan, grid).aoq
+        k = int(np.argmax(aoq))
+        if len(grid) == b - a + 1:  # every D in [a, b] evaluated
+            return float(aoq[k]), int(grid[k])
+        a, b = int(grid[max(k - 1, 0)]), int(grid[min(k + 1, len(grid) - 1)])
+
+
 # --------------------------------------------------------------------------
 # the plan's own quality levels
 
@@ -349,11 +373,14 @@ def rql_lot(N: int, n: int, c: int, beta) -> int | None:
     N, n, c = check_single(N, n, c)
     beta = Fraction(beta)
 
-    def le(D: int) -> bool:
-        value = hg.tails_scalar(c, N, D, n)[0]
-        return _search.compare(value, beta, lambda: _search.exact_lot_cdf(c, N, D, n)) <= 0
+    beta_f = float(beta)
 
-    if not le(N):
+    def le(D: int):
+        value = hg.tails_scalar(c, N, D, n)[0]
+        ok = _search.compare(value, beta, lambda: _search.exact_lot_cdf(c, N, D, n)) <= 0
+        return ok, (math.log(value / beta_f) if value > 0 else -math.inf)
+
+    if not le(N)[0]:
         return None
     guess = _guess_fraction(n, c, float(beta), upper=True) * N
     return _search.smallest_true(le, c + 1, N, int(guess))
@@ -364,9 +391,12 @@ def aql_lot(N: int, n: int, c: int, pa) -> int:
     N, n, c = check_single(N, n, c)
     pa = Fraction(pa)
 
-    def ge(D: int) -> bool:
+    pa_f = float(pa)
+
+    def ge(D: int):
         value = hg.tails_scalar(c, N, D, n)[0]
-        return _search.compare(value, pa, lambda: _search.exact_lot_cdf(c, N, D, n)) >= 0
+        ok = _search.compare(value, pa, lambda: _search.exact_lot_cdf(c, N, D, n)) >= 0
+        return ok, (math.log(value / pa_f) if value > 0 else -math.inf)
 
     guess = _guess_fraction(n, c, float(pa), upper=True) * N
     return _search.largest_true(ge, min(c, N), N, int(guess))
