@@ -19,6 +19,7 @@ from inspector.cli._common import CommandError, UsageError, build_root_parser
 COMMAND_MODULES = (
     "inspector.cli.plan",
     "inspector.cli.estimate",
+    "inspector.cli.draw",
 )
 
 _PARSER = None
