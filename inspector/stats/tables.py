@@ -66,6 +66,7 @@ AQLs are matched by their exact decimal value, so ``"1"``, ``"1.0"`` and
 
 from __future__ import annotations
 
+import numbers
 from dataclasses import dataclass
 from decimal import Decimal, InvalidOperation
 from fractions import Fraction
@@ -90,6 +91,7 @@ __all__ = [
     "code_letter",
     "sample_size",
     "table_cell",
+    "tightened_pattern_cell",
     "lookup_plan",
 ]
 
@@ -444,8 +446,9 @@ def _check_severity(severity: str) -> str:
 
 
 def _check_lot_size(lot_size) -> int:
-    if isinstance(lot_size, bool) or not isinstance(lot_size, int):
+    if isinstance(lot_size, bool) or not isinstance(lot_size, numbers.Integral):
         raise TableError("lot_size", lot_size, f"lot size must be a whole number, got {lot_size!r}")
+    lot_size = int(lot_size)  # numpy integers from stored data become plain ints
     if lot_size < 2:
         raise TableError("lot_size", lot_size, f"lot size must be at least 2 (Table I starts at 2), got {lot_size}")
     return lot_size
