@@ -150,6 +150,7 @@ def _coerce(event: Event, index: int) -> Union[LotOutcome, CorrectiveAction]:
 
 
 def _names(ids: list[str]) -> str:
+    ids = [str(i) for i in ids]  # stored lot ids may be numbers
     if len(ids) == 1:
         return ids[0]
     return ", ".join(ids[:-1]) + " and " + ids[-1]
@@ -274,9 +275,9 @@ def switching_state(events: Iterable[Event], *, start: str = NORMAL) -> Switchin
                     note = "inspection discontinued after this lot"
                     reason = (
                         f"Inspection discontinued after lot {lot.lot_id}: {len(tight_rejected)} lots were not "
-                        f"accepted on tightened inspection ({_names(tight_rejected)}). No lot is to be "
-                        f"accepted under the plan until corrective action is recorded; inspection then "
-                        f"resumes on tightened ({CITATION})."
+                        f"accepted on tightened inspection ({_names(tight_rejected)}). Acceptance inspection "
+                        f"under the standard stays discontinued until corrective action is recorded; it "
+                        f"then resumes on tightened ({CITATION})."
                     )
                 else:
                     reason = _tightened_reason(tight_cause, tight_accept_run, tight_rejected)
