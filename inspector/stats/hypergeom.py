@@ -27,8 +27,9 @@ near ``mp``. Unlike differences of ``lgamma`` (which lose about 1e-8 at
 N = 10^7 because each term is ~10^8 in size) every term stays small, so the
 result keeps about 1e-13 relative accuracy for lots up to 10^9 units.
 
-Tails are summed from the short side (below the mean: the lower tail, above
-it: the upper tail) with the ratio recurrence
+Tails are summed from the short side (the lower tail when x + 1/2 lies at
+or below the mean, else the upper tail; the half keeps a lot with a tiny
+mean, where P(X <= 0) is nearly 1, on the upper side) with the ratio recurrence
 ``P(x - 1) / P(x) = x (N - D - n + x) / ((D - x + 1)(n - x + 1))``, so the
 cdf and the sf are each accurate where they are small. C(N, n) is never
 formed. Results too small for a double (below about 1e-308) are returned as
@@ -193,7 +194,7 @@ def tails_scalar(x: int, N: int, D: int, n: int) -> tuple[float, float]:
         return 0.0, 1.0
     if x >= hi:
         return 1.0, 0.0
-    if x * N <= n * D:  # at or below the mean: sum the lower tail downward
+    if (2 * x + 1) * N <= 2 * n * D:  # x + 1/2 at or below the mean: lower tail
         log_anchor = logpmf_scalar(x, N, D, n)
         total = 1.0
         term = 1.0
@@ -232,7 +233,7 @@ def binom_tails_scalar(x: int, m: int, p: float) -> tuple[float, float]:
     if p >= 1.0:
         return 0.0, 1.0
     q = 1.0 - p
-    if x <= m * p:
+    if x + 0.5 <= m * p:
         log_anchor = binom_logpmf_scalar(x, m, p, q)
         total = term = 1.0
         k = x
@@ -274,7 +275,7 @@ def _stirlerr_v(n: np.ndarray) -> np.ndarray:
     # The five-term series is exact to 2e-16 for every n > 15; extra terms at
     # large n are below rounding, so one formula serves all n > 15.
     series = (_S0 - (_S1 - (_S2 - (_S3 - _S4 / nn) / nn) / nn) / nn) / ns
-    table = _SFERR_ARRAY[np.minimum(n, 15.0).astype(np.int64)]
+    table = _SFERR_ARRAY[np.clip(n, 0.0, 15.0).astype(np.int64)]
     return np.where(small, table, series)
 
 
@@ -392,7 +393,7 @@ def _tails_v(x, N, D, n):
     above = x >= hi
     # short side: at or below the mean sum the lower tail from x downward,
     # above it the upper tail from x + 1 upward
-    lower = x * N <= n * D
+    lower = (x + 0.5) * N <= n * D
     anchor = np.where(lower, x, x + 1.0)
     stop = np.where(lower, lo, hi)
     log_anchor = _logpmf_core(np.where(below | above, lo, anchor), N, D, n)
