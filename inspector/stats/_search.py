@@ -68,7 +68,9 @@ def exact_binom_cdf(x: int, m: int, p: Fraction) -> Fraction | None:
     )
 
 
-def smallest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) -> int:
+def smallest_true(
+    probe: Callable[[int], object], lo: int, hi: int, guess: int, step: int | None = None
+) -> int:
     """Smallest k in [lo, hi] where ``probe`` says True; it is False then True.
 
     ``probe(k)`` returns a bool, or ``(bool, score)`` with a float score
@@ -77,7 +79,9 @@ def smallest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) 
     interpolation (regula falsi, Illinois variant) instead of halving.
     The probe at ``hi`` must be True. The search starts at ``guess`` and
     gallops outward in doubling steps until the answer is bracketed, so a
-    good guess costs only a handful of probes even for hi ~ 10^9.
+    good guess costs only a handful of probes even for hi ~ 10^9. ``step``
+    is the first galloping step (default: 1/64 of the guess); pass a smaller
+    one when the guess is known to be close.
     """
     if lo >= hi:
         return hi
@@ -90,7 +94,7 @@ def smallest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) 
         return cache[k][0]
 
     g = min(max(guess, lo), hi)
-    step = max(1, g >> 6)
+    step = max(1, g >> 6 if step is None else step)
     if ask(g):
         b = g
         a = g - step
@@ -131,7 +135,9 @@ def smallest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) 
     return b
 
 
-def largest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) -> int:
+def largest_true(
+    probe: Callable[[int], object], lo: int, hi: int, guess: int, step: int | None = None
+) -> int:
     """Largest k in [lo, hi] where ``probe`` says True; it is True then False.
 
     ``probe`` as in ``smallest_true`` but with the sense reversed: a score,
@@ -147,4 +153,4 @@ def largest_true(probe: Callable[[int], object], lo: int, hi: int, guess: int) -
             return (not r[0]), r[1]
         return not r
 
-    return smallest_true(flipped, lo + 1, hi + 1, guess + 1) - 1
+    return smallest_true(flipped, lo + 1, hi + 1, guess + 1, step) - 1

@@ -31,7 +31,6 @@ from fractions import Fraction
 from inspector.stats import _search
 from inspector.stats import hypergeom as hg
 from inspector.stats.design import as_fraction, defectives_at
-from inspector.stats.plans import poisson_mean_for
 
 __all__ = ["Estimate", "Evidence", "estimate_defectives", "evidence"]
 
@@ -116,17 +115,26 @@ def estimate_defectives(*, lot_size: int, sample_size: int, found: int, confiden
     )
 
 
-def _start(N: int, n: int, x: int, tail: float, upper: bool) -> int:
-    """A starting D near the bound: Poisson quantile, finite-lot shrunk."""
+def _start(N: int, n: int, x: int, tail: float, upper: bool) -> tuple[int, int]:
+    """A starting D near the bound and a first search step.
+
+    The binomial (Clopper-Pearson) bound from the regularised incomplete
+    beta inverse, pulled toward the sample fraction by the finite-lot factor
+    sqrt((N - n) / (N - 1)); for n much smaller than N it is within a small
+    fraction of a percent of the exact bound.
+    """
+    from scipy.special import betaincinv
+
     p_hat = x / n
     if upper:
-        p = poisson_mean_for(x, tail) / n
+        p = 1.0 if x >= n else float(betaincinv(x + 1, n - x, 1.0 - tail))
     else:
-        p = poisson_mean_for(x - 1, 1 - tail) / n if x > 0 else 0.0
-    # sampling without replacement narrows the interval by about
-    # sqrt((N - n) / (N - 1)) around the sample fraction
+        p = 0.0 if x <= 0 else float(betaincinv(x, n - x + 1, tail))
     shrink = math.sqrt((N - n) / (N - 1)) if N > 1 else 0.0
-    return int(N * min(1.0, max(0.0, p_hat + (p - p_hat) * shrink)))
+    guess = int(N * min(1.0, max(0.0, p_hat + (p - p_hat) * shrink)))
+    # the guess is close when the lot is large next to the sample
+    step = max(1, guess >> 10) if n * 20 < N else None
+    return guess, step
 
 
 def _upper(N: int, n: int, x: int, a: Fraction) -> int:
@@ -139,7 +147,8 @@ def _upper(N: int, n: int, x: int, a: Fraction) -> int:
         ok = _search.compare(value, a, lambda: _search.exact_lot_cdf(x, N, D, n)) > 0
         return ok, (math.log(value / af) if value > 0 else -math.inf)
 
-    return _search.largest_true(above, x, top, _start(N, n, x, af, upper=True))
+    guess, step = _start(N, n, x, af, upper=True)
+    return _search.largest_true(above, x, top, guess, step)
 
 
 def _lower(N: int, n: int, x: int, a: Fraction) -> int:
@@ -154,7 +163,8 @@ def _lower(N: int, n: int, x: int, a: Fraction) -> int:
         ok = _search.compare(value, a, lambda: _search.exact_lot_sf(x - 1, N, D, n)) > 0
         return ok, (math.log(af / value) if value > 0 else math.inf)
 
-    return _search.smallest_true(above, x, top, _start(N, n, x, af, upper=False))
+    guess, step = _start(N, n, x, af, upper=False)
+    return _search.smallest_true(above, x, top, guess, step)
 
 
 def evidence(*, lot_size: int, sample_size: int, found: int, aql, rql) -> Evidence:

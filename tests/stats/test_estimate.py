@@ -91,3 +91,22 @@ def test_evidence_against_the_quality_levels():
 def test_bad_estimate_arguments_name_the_argument(kwargs, word):
     with pytest.raises(ValueError, match=word):
         estimate_defectives(**kwargs)
+
+
+def test_bounds_at_a_billion_units_are_exact_where_scipy_drifts():
+    # At N = 10^9 scipy's cdf drifts by ~1e-7 and moves the bound by a few units;
+    # the exact check here uses mpmath at 50 digits (a second implementation).
+    import mpmath as mp
+
+    mp.mp.dps = 50
+    N, n, x = 10**9, 50, 5
+
+    def cdf(D):
+        return sum(mp.binomial(D, k) * mp.binomial(N - D, n - k) for k in range(x + 1)) / mp.binomial(N, n)
+
+    e = estimate_defectives(lot_size=N, sample_size=n, found=x, confidence="0.95")
+    a = mp.mpf("0.025")
+    assert cdf(e.upper_defectives) > a >= cdf(e.upper_defectives + 1)
+    sf = lambda D: 1 - sum(mp.binomial(D, k) * mp.binomial(N - D, n - k) for k in range(x)) / mp.binomial(N, n)
+    assert sf(e.lower_defectives) > a >= sf(e.lower_defectives - 1)
+    assert cdf(e.upper_bound_defectives) > 2 * a >= cdf(e.upper_bound_defectives + 1)
