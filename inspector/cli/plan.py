@@ -67,12 +67,9 @@ def register(subparsers) -> None:
     zero.set_defaults(handler=_zero)
 
     # The code-letter table route lives in its own module.
-    import importlib.util
+    from inspector.cli import plan_table
 
-    if importlib.util.find_spec("inspector.cli.plan_table") is not None:
-        from inspector.cli import plan_table
-
-        plan_table.register(sub)
+    plan_table.register(sub)
 
 
 def _pct(value: Fraction) -> str:
