@@ -362,7 +362,7 @@ def _two_stage(structure: LotStructure, level: str, n: int, k: int, stream: Word
             "containers",
             f"containers: {structure.container_label(level, large_at)} holds {largest} of {N} units, so "
             f"with {k} containers its selection probability {k}*{largest}/{N} would exceed 1 "
-            f"(open at most {N // largest} containers, or draw by a smaller level)",
+            f"(open at most {N // largest}, or draw by a smaller level)",
         )
     if smallest == largest:
         # Equal sizes: PPS is equal probability k/H, and a simple random

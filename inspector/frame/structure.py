@@ -273,7 +273,7 @@ class RegularLot(LotStructure):
         """The unit number at ``where``: a unit number (int or digits), or an
         address such as ``pallet 3 / layer 2 / carton 7 / unit 14`` (level
         names optional and case-insensitive: ``3/2/7/14`` works too)."""
-        if isinstance(where, int) and not isinstance(where, bool):
+        if isinstance(where, int):  # bool included: check_unit refuses it
             return self.check_unit(where)
         text = str(where).strip()
         if _DIGITS.match(text):
@@ -424,7 +424,7 @@ class ManifestLot(LotStructure):
     def unit_at(self, where: int | str) -> int:
         """The unit number at ``where``: a serial (tried first), an address
         such as ``container P-07 / unit 3``, or a unit number."""
-        if isinstance(where, int) and not isinstance(where, bool):
+        if isinstance(where, int):  # bool included: check_unit refuses it
             return self.check_unit(where)
         text = str(where).strip()
         if text in self._serial_index:
@@ -529,7 +529,7 @@ def manifest_rows(text: str) -> tuple[str, list[tuple[int, str, str]]]:
     """
     if text.startswith("\ufeff"):
         text = text[1:]
-    reader = csv.reader(io.StringIO(text))
+    reader = csv.reader(io.StringIO(text), strict=True)
     header = None
     try:
         for row in reader:
