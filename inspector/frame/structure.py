@@ -26,7 +26,7 @@ import re
 from bisect import bisect_right
 from dataclasses import dataclass, field
 from functools import cached_property
-from itertools import accumulate
+from itertools import accumulate, chain
 from typing import Iterable, Mapping, Sequence
 
 from inspector.frame.errors import FrameError
@@ -244,14 +244,14 @@ class RegularLot(LotStructure):
     def form(self) -> str:
         return "flat" if len(self.levels) == 1 else "nested"
 
-    @property
+    @cached_property
     def size(self) -> int:
         n = 1
         for _, count in self.levels:
             n *= count
         return n
 
-    @property
+    @cached_property
     def level_names(self) -> tuple[str, ...]:
         return tuple(name for name, _ in self.levels)
 
@@ -261,13 +261,26 @@ class RegularLot(LotStructure):
         return ",".join(f"{name}={count}" for name, count in self.levels)
 
     def address_of(self, unit: int) -> Address:
-        rest = self.check_unit(unit) - 1
-        labels = []
-        for _, count in reversed(self.levels):
-            rest, pos = divmod(rest, count)
-            labels.append(str(pos + 1))
-        labels.reverse()
-        return Address(unit=unit, path=tuple(zip(self.level_names, labels)))
+        return self.addresses((unit,))[0]
+
+    def addresses(self, units: Iterable[int]) -> list[Address]:
+        # The hot path of a pick list: one divmod per level and unit, names
+        # and radices looked up once.
+        names = self.level_names
+        radices = tuple(count for _, count in reversed(self.levels))
+        size = self.size
+        out = []
+        for unit in units:
+            if isinstance(unit, bool) or not isinstance(unit, int) or not 1 <= unit <= size:
+                self.check_unit(unit)
+            rest = unit - 1
+            labels = []
+            for count in radices:
+                rest, pos = divmod(rest, count)
+                labels.append(str(pos + 1))
+            labels.reverse()
+            out.append(Address(unit=unit, path=tuple(zip(names, labels))))
+        return out
 
     def unit_at(self, where: int | str) -> int:
         """The unit number at ``where``: a unit number (int or digits), or an
@@ -382,15 +395,19 @@ class ManifestLot(LotStructure):
                 raise FrameError(
                     "manifest", f"manifest: {len(serials)} serials for {ends[-1]} units"
                 )
-            seen: set[str] = set()
-            for s in serials:
-                if not isinstance(s, str) or not s.strip() or s != s.strip():
-                    raise FrameError(
-                        "manifest", f"manifest: serial must be non-empty text without outer spaces, got {s!r}"
-                    )
-                if s in seen:
-                    raise FrameError("manifest", f"manifest: serial {s!r} is listed twice")
-                seen.add(s)
+            # Bulk checks first (a manifest may list 10^5..10^6 serials); the
+            # offending value is looked for only when a check fails.
+            bad = [x for x in serials if not isinstance(x, str) or not x or x != x.strip()]
+            if bad:
+                raise FrameError(
+                    "manifest", f"manifest: serial must be non-empty text without outer spaces, got {bad[0]!r}"
+                )
+            if len(set(serials)) != len(serials):
+                seen: set[str] = set()
+                for x in serials:
+                    if x in seen:
+                        raise FrameError("manifest", f"manifest: serial {x!r} is listed twice")
+                    seen.add(x)
             object.__setattr__(self, "serials", serials)
         object.__setattr__(self, "containers", containers)
         object.__setattr__(self, "counts", counts)
@@ -555,15 +572,16 @@ def manifest_rows(text: str) -> tuple[str, list[tuple[int, str, str]]]:
         need = max(i, j) + 1
         rows = []
         for row in reader:
-            if not any(cell.strip() for cell in row):
-                continue
-            if len(row) < need:
+            if len(row) >= need:
+                a, b = row[i].strip(), row[j].strip()
+                if a or b or "".join(row).strip():
+                    rows.append((reader.line_num, a, b))
+            elif "".join(row).strip():
                 raise FrameError(
                     "manifest",
                     f"manifest line {reader.line_num}: expected {len(header)} columns, got {len(row)} "
                     f"({','.join(row)!r})",
                 )
-            rows.append((reader.line_num, row[i].strip(), row[j].strip()))
     except csv.Error as exc:
         raise FrameError("manifest", f"manifest line {reader.line_num}: malformed CSV ({exc})") from None
     if not rows:
@@ -601,20 +619,26 @@ def manifest_from_csv_text(text: str, *, lot_size: int | None = None) -> Manifes
             counts.append(int(digits))
         lot = ManifestLot(containers=tuple(labels), counts=tuple(counts))
     else:
-        groups: dict[str, list[str]] = {}
-        seen: dict[str, int] = {}
         for line, serial, label in rows:
             if not serial:
                 raise FrameError("manifest", f"manifest line {line}: serial: expected a serial, got ''")
             if not label:
                 raise FrameError("manifest", f"manifest line {line}: container: expected a label, got ''")
-            if serial in seen:
-                raise FrameError(
-                    "manifest", f"manifest line {line}: serial {serial!r} is already listed on line {seen[serial]}"
-                )
-            seen[serial] = line
-            groups.setdefault(label, []).append(serial)
-        serials = tuple(s for members in groups.values() for s in members)
+        if len({serial for _, serial, _ in rows}) != len(rows):
+            seen: dict[str, int] = {}
+            for line, serial, _ in rows:
+                if serial in seen:
+                    raise FrameError(
+                        "manifest", f"manifest line {line}: serial {serial!r} is already listed on line {seen[serial]}"
+                    )
+                seen[serial] = line
+        groups: dict[str, list[str]] = {}
+        for _, serial, label in rows:
+            members = groups.get(label)
+            if members is None:
+                groups[label] = members = []
+            members.append(serial)
+        serials = tuple(chain.from_iterable(groups.values()))
         lot = ManifestLot(
             containers=tuple(groups),
             counts=tuple(len(members) for members in groups.values()),
