@@ -42,7 +42,11 @@ random sample without replacement in draw order. Nothing is ever
 materialized per unit of the lot, so 10^9-unit lots cost what small lots
 cost.
 
-``srswor-v1`` (simple): units = distinct(N, n) + 1.
+``srswor-v1`` (simple): units = distinct(N, n) + 1. A larger simple sample
+from the same seed contains the smaller one (the draw order is a prefix).
+The expected number of words is about N*ln(N/(N-n)): drawing most of a big
+lot is slow (all of 10^6 units takes seconds), a sample of thousands from
+10^9 takes about a millisecond.
 
 ``srswr-v1`` (with-replacement, for non-destructive re-checks only): n
 values below(N) + 1, repeats kept. Shown everywhere with that label.

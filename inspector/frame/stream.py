@@ -83,10 +83,15 @@ class WordStream:
         set of ``count`` values is equally likely). The caller guarantees that
         enough values remain.
         """
+        threshold = _TWO64 % m
+        word = self.word
         seen: set[int] = set()
         out: list[int] = []
         while len(out) < count:
-            v = self.below(m)
+            w = word()
+            if w < threshold:  # the bounded step, inlined: same words, same values
+                continue
+            v = w % m
             if v in seen or (skip is not None and skip(v)):
                 continue
             seen.add(v)
