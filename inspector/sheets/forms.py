@@ -48,7 +48,7 @@ DECISION_FIELDS = (
 RECORD_FIELDS = ("record_hash",)
 
 COLUMNS = {
-    "walk": ("check", "unit", "position", "address", "serial", "code", "times"),
+    "walk": ("check", "unit", "container", "position", "address", "serial", "code", "times"),
     "containers": ("container", "count", "check"),
     "bench": ("unit", "address", "position", "serial", "outcome", "class", "defect", "note", "initials", "time"),
     "plans": (

@@ -81,7 +81,8 @@ class SheetUnit:
     ``address`` is the full address (``pallet 3 / layer 2 / carton 7 /
     unit 14``), ``position`` its last part (``unit 14``); ``times`` > 1 only
     in a with-replacement draw; ``replaces``/``reason`` when the unit is a
-    substitute for one that could not be inspected."""
+    substitute for one that could not be inspected; ``classes`` are the
+    defect classes whose sample holds the unit (empty: every planned class)."""
 
     unit: int
     address: str
@@ -90,6 +91,7 @@ class SheetUnit:
     times: int = 1
     replaces: int | None = None
     reason: str | None = None
+    classes: tuple[str, ...] = ()
 
     def __post_init__(self):
         _count(self, "unit", self.unit, 1)
@@ -301,11 +303,13 @@ class SheetEstimate:
 
 @dataclass(frozen=True, kw_only=True)
 class SheetSignature:
-    """A recorded signature: printed name, what the signature means, when."""
+    """A recorded signature: printed name, what the signature means, when;
+    ``changed_since_signed`` when the record changed after signing."""
 
     printed_name: str
     meaning: str
     at: str
+    changed_since_signed: bool = False
 
     def __post_init__(self):
         _text(self, "printed_name", self.printed_name)
