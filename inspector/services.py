@@ -18,8 +18,8 @@ from inspector.records import ENV_VAR, Clock, Store, default_clock, open_store, 
 
 @dataclass(frozen=True, kw_only=True)
 class Services:
-    """The built services. ``workflow`` and ``sheets`` are None where that part
-    is not available in this build."""
+    """The built services. ``sheets`` is None until the worksheet writer
+    exists."""
 
     store: Store
     workflow: Any = None
@@ -55,9 +55,11 @@ def build_services(
     named = (db_path is not None and str(db_path) != "") or bool(environ.get(ENV_VAR, ""))
     clock = clock or default_clock()
     store = open_store(path, clock=clock, create_dirs=not named)
+    from inspector.workflow import Workflow
+
     return Services(
         store=store,
-        workflow=None,  # the workflow service is built here once it exists
+        workflow=Workflow(store=store, clock=clock),
         sheets=None,
         forms_dir=None if forms_dir is None else Path(forms_dir),
     )

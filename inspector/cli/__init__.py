@@ -20,6 +20,11 @@ COMMAND_MODULES = (
     "inspector.cli.plan",
     "inspector.cli.estimate",
     "inspector.cli.draw",
+    "inspector.cli.person",
+    "inspector.cli.lot",
+    "inspector.cli.lots",
+    "inspector.cli.audit",
+    "inspector.cli.sheet",
 )
 
 _PARSER = None

@@ -57,7 +57,7 @@ def test_build_services_creates_the_default_data_directory(tmp_path, clock):
     with build_services(environ=env, clock=clock) as services:
         assert services.store.path == tmp_path / "xdg" / "inspector" / "inspector.db"
         assert services.store.path.exists()
-        assert services.workflow is None or hasattr(services.workflow, "register_lot")
+        assert services.workflow.store is services.store
 
 
 def test_a_named_store_in_a_missing_directory_is_refused(tmp_path, clock):
