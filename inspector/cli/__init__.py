@@ -24,6 +24,7 @@ COMMAND_MODULES = (
     "inspector.cli.lot",
     "inspector.cli.lots",
     "inspector.cli.audit",
+    "inspector.cli.sheet",
 )
 
 _PARSER = None
