@@ -1,0 +1,218 @@
+"""Lots: every registered lot with its state, supplier, product, size,
+progress at the bench and decision; a filter; open a lot.
+
+On an empty store it offers the demo lot."""
+
+from __future__ import annotations
+
+from rich.markup import escape
+from textual import on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.message import Message
+from textual.screen import Screen
+from textual.widgets import DataTable, Input, Static
+
+from inspector.tui.app import decision_words, state_words
+from inspector.tui.screens.base import Notice, TopBar, one_line
+from inspector.tui.widgets import KeyStrip
+
+
+class LotsListed(Message):
+    def __init__(self, lots: list[dict]) -> None:
+        super().__init__()
+        self.lots = lots
+
+
+class ProgressRead(Message):
+    """How far the bench has got with one lot."""
+
+    def __init__(self, lot_id: str, progress: str) -> None:
+        super().__init__()
+        self.lot_id = lot_id
+        self.progress = progress
+
+
+class DemoLoaded(Message):
+    def __init__(self, lot_id: str | None, error: str | None = None) -> None:
+        super().__init__()
+        self.lot_id = lot_id
+        self.error = error
+
+
+def progress_words(report: dict) -> str:
+    """Inspected of drawn, e.g. ``12/132``; ``—`` before the draw."""
+    classes = report.get("classes") or {}
+    if not report.get("draw") or not classes:
+        return "—"
+    sample = len(report.get("sample_units") or [])
+    done = {r["unit"] for r in report.get("results", []) if r.get("current")}
+    return f"{len(done)}/{sample}"
+
+
+class LotsScreen(Screen):
+    """All lots, newest first."""
+
+    CSS_PATH = "lots.tcss"
+    BINDINGS = [
+        Binding("enter", "open", "open lot", priority=True),
+        Binding("n", "register", "new lot"),
+        Binding("slash", "filter", "filter", key_display="/"),
+        Binding("h", "history", "supplier history"),
+        Binding("u", "people", "people"),
+        Binding("d", "demo", "load demo lot"),
+    ]
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.lots: list[dict] = []
+        self.progress: dict[str, str] = {}
+        self.loaded = False
+
+    def compose(self) -> ComposeResult:
+        yield TopBar("lots")
+        yield Input(placeholder="filter: lot, supplier, product, state or decision (press / )", id="filter")
+        yield Static("", id="offer")
+        table = DataTable(id="lots", cursor_type="row", zebra_stripes=True)
+        yield table
+        yield Notice("", id="notice", classes="notice")
+        yield KeyStrip()
+
+    def on_mount(self) -> None:
+        table = self.query_one("#lots", DataTable)
+        for label, key, width in (("lot", "lot", 12), ("state", "state", 12), ("supplier", "supplier", 14),
+                                  ("product", "product", 14), ("size", "size", 6), ("done", "done", 9),
+                                  ("decision", "decision", 9)):
+            table.add_column(label, key=key, width=width)
+        table.focus()
+        self.refresh_lots()
+
+    def on_screen_resume(self) -> None:
+        if self.loaded:
+            self.refresh_lots()
+
+    def check_action(self, action: str, parameters) -> bool | None:
+        if action == "demo":
+            return self.loaded and not self.lots
+        if action in ("open", "history"):
+            return bool(self.lots) or None
+        return True
+
+    # --- loading ------------------------------------------------------------------------------------
+
+    def refresh_lots(self) -> None:
+        self._list_lots()
+
+    @work(thread=True, exclusive=True, group="lots")
+    def _list_lots(self) -> None:
+        wf = self.app.workflow
+        try:
+            lots = wf.lots()
+        except Exception as exc:  # noqa: BLE001
+            self.app.call_from_thread(self.query_one(Notice).say, "error", one_line(exc))
+            return
+        self.post_message(LotsListed(lots))
+        for item in lots:
+            try:
+                report = wf.show(item["id"])
+            except Exception:  # noqa: BLE001 - progress stays unknown
+                continue
+            self.post_message(ProgressRead(item["id"], progress_words(report)))
+
+    def on_lots_listed(self, message: LotsListed) -> None:
+        self.lots = list(reversed(message.lots))
+        self.loaded = True
+        self.query_one("#offer", Static).display = not self.lots
+        if not self.lots:
+            from inspector.tui.demo import DEMO_OFFER
+
+            self.query_one("#offer", Static).update(DEMO_OFFER)
+        person = self.app.current_inspector()
+        self.query_one(TopBar).update(escape(
+            f"lots · {len(self.lots)} registered · at the bench: {person or 'nobody yet (press u)'}"))
+        self.fill_table()
+        self.refresh_bindings()
+
+    def on_progress_read(self, message: ProgressRead) -> None:
+        self.progress[message.lot_id] = message.progress
+        table = self.query_one("#lots", DataTable)
+        try:
+            table.update_cell(message.lot_id, "done", message.progress)
+        except Exception:  # noqa: BLE001 - row filtered out
+            pass
+
+    def fill_table(self) -> None:
+        table = self.query_one("#lots", DataTable)
+        words = self.query_one("#filter", Input).value.strip().lower()
+        table.clear()
+        for lot in self.lots:
+            cells = [lot["id"], state_words(lot["state"]), lot["supplier"], lot["product"], str(lot["size"]),
+                     self.progress.get(lot["id"], "…"), decision_words(lot["decision"])]
+            if words and not any(words in str(c).lower() for c in cells):
+                continue
+            table.add_row(*cells, key=lot["id"])
+
+    @on(Input.Changed, "#filter")
+    def _filter_changed(self) -> None:
+        self.fill_table()
+
+    # --- actions ------------------------------------------------------------------------------------
+
+    def selected_lot(self) -> dict | None:
+        table = self.query_one("#lots", DataTable)
+        if table.row_count == 0:
+            return None
+        key = table.coordinate_to_cell_key(table.cursor_coordinate).row_key.value
+        return next((lot for lot in self.lots if lot["id"] == key), None)
+
+    def action_open(self) -> None:
+        from inspector.tui.screens import open_lot_screen, screen_for_state
+
+        lot = self.selected_lot()
+        if lot is None:
+            self.query_one(Notice).say("warning", "no lot to open")
+            return
+        open_lot_screen(self.app, screen_for_state(lot["state"]), lot["id"])
+
+    def action_register(self) -> None:
+        from inspector.tui.screens.register import RegisterScreen
+
+        self.app.push_screen(RegisterScreen())
+
+    def action_filter(self) -> None:
+        self.query_one("#filter", Input).focus()
+
+    def action_history(self) -> None:
+        from inspector.tui.screens.history import HistoryScreen
+
+        lot = self.selected_lot()
+        if lot is not None:
+            self.app.push_screen(HistoryScreen(lot["id"]))
+
+    def action_people(self) -> None:
+        from inspector.tui.screens.people import PeopleScreen
+
+        self.app.push_screen(PeopleScreen())
+
+    def action_demo(self) -> None:
+        self.query_one(Notice).say("info", "loading the demo lot …")
+        self._load_demo()
+
+    @work(thread=True, exclusive=True, group="demo")
+    def _load_demo(self) -> None:
+        from inspector.tui.demo import load_demo
+
+        try:
+            with self.app.write_lock:
+                loaded = load_demo(self.app.workflow)
+        except Exception as exc:  # noqa: BLE001
+            self.post_message(DemoLoaded(None, one_line(exc)))
+        else:
+            self.post_message(DemoLoaded(loaded.lot_id))
+
+    def on_demo_loaded(self, message: DemoLoaded) -> None:
+        if message.error:
+            self.query_one(Notice).say("error", message.error)
+            return
+        self.query_one(Notice).say("saved", f"demo lot {message.lot_id} registered; press Enter to open it")
+        self.refresh_lots()
