@@ -32,7 +32,8 @@ from __future__ import annotations
 
 import hashlib
 import secrets as _entropy
-from dataclasses import dataclass, field
+from dataclasses import dataclass
+from datetime import date
 from decimal import Decimal, localcontext
 from fractions import Fraction
 from typing import Any, Callable, Sequence
@@ -223,6 +224,15 @@ def _subsample_seed(seed: int, defect_class: str) -> int:
     return int.from_bytes(digest[:16], "big")
 
 
+def _frame_refusal(exc, rename: dict[str, str]) -> WorkflowError:
+    """A frame error as a workflow refusal, its field named in our terms."""
+    field_name = rename.get(exc.field, exc.field)
+    message = str(exc)
+    if message.startswith(exc.field + ":"):
+        message = field_name + message[len(exc.field):]
+    return WorkflowError(field_name, message)
+
+
 def _what(state: str | None) -> str:
     return state or "not registered"
 
@@ -290,6 +300,7 @@ class Workflow:
         notes: str | None = None,
         resubmission_of: str | None = None,
         received_on: str | None = None,
+        by: str | None = None,
     ) -> dict:
         """Register a lot with its physical structure (a spec, a manifest, or
         just its size). Returns the lot as :meth:`show` would."""
@@ -315,14 +326,17 @@ class Workflow:
                 lot_structure = frame.flat_lot(size)
                 spec = None
         except frame.FrameError as exc:
-            field_name = {"lot_size": "size"}.get(exc.field, exc.field)
-            message = str(exc)
-            if message.startswith(exc.field + ":"):
-                message = field_name + message[len(exc.field):]
-            raise WorkflowError(field_name, message) from None
+            raise _frame_refusal(exc, {"lot_size": "size"}) from None
         if received_on is None:
             received_on = self.clock().date().isoformat()
+        else:
+            try:
+                received_on = date.fromisoformat(str(received_on).strip()).isoformat()
+            except ValueError:
+                raise WorkflowError("received_on", f"received_on: expected a date as YYYY-MM-DD, "
+                                                   f"got {received_on!r}") from None
         with self.store.transaction() as tx:
+            person = self._person(tx, by) if by is not None else None
             if tx.lot(lot_id) is not None:
                 raise WorkflowError("id", f"id: lot {lot_id!r} is already registered")
             if resubmission_of is not None and tx.lot(resubmission_of) is None:
@@ -333,9 +347,10 @@ class Workflow:
                 lot_id=lot_id, supplier_id=supplier_id, product_id=product_id, quantity=size,
                 received_on=received_on, reference=reference, structure_spec=spec,
                 structure=lot_structure.to_dict(), critical=critical, notes=notes,
-                resubmission_of=resubmission_of,
+                resubmission_of=resubmission_of, by_person=person.id if person else None,
             )
-            self._transition(tx, lot_id, None, "registered", detail={"size": size})
+            self._transition(tx, lot_id, None, "registered", detail={"size": size},
+                             by_person=person.id if person else None)
         return self.show(lot_id)
 
     def lots(self, *, state: str | None = None, supplier: str | None = None) -> list[dict]:
@@ -508,6 +523,7 @@ class Workflow:
         consumer_risk: Any = "0.10",
         sample: int | None = None,
         accept: int | None = None,
+        by: str | None = None,
     ) -> dict:
         """Set the plan of one defect class: designed from AQL/RQL and the risks
         at the actual lot size, or typed as n and c (its risks are computed).
@@ -603,11 +619,13 @@ class Workflow:
             details["caution"] = CRITICAL_CAUTION
         with self.store.transaction() as tx:
             data = self._load(tx, lot_id, "lot plan")
+            person_id = self._person(tx, by).id if by is not None else None
             if data.state not in ("registered", "planned"):
                 raise WorkflowError("lot", f"lot plan: lot {data.lot.lot_id} is {data.state}; plans are set before the draw")
             entry = tx.add_plan(lot_id=data.lot.lot_id, defect_class=defect_class, chosen_by=chosen_by,
-                                sample_size=n, accept=c, reject=c + 1, details=details, **stored)
-            self._transition(tx, data.lot.lot_id, data.state, "planned",
+                                sample_size=n, accept=c, reject=c + 1, details=details, by_person=person_id,
+                                **stored)
+            self._transition(tx, data.lot.lot_id, data.state, "planned", by_person=person_id,
                              detail={"class": defect_class, "plan_entry": entry})
         return {"entry": entry, "lot": data.lot.lot_id, "class": defect_class, "chosen_by": chosen_by,
                 "sample_size": n, "accept": c, "reject": c + 1, **stored, "details": details}
@@ -615,7 +633,7 @@ class Workflow:
     # --- draw --------------------------------------------------------------------------------------
 
     def draw(self, lot_id: str, *, method: str = "simple", seed: int | None = None, seed_text: str | None = None,
-             by: str | None = None, containers: int | None = None) -> dict:
+             level: str | None = None, containers: int | None = None, by: str | None = None) -> dict:
         """Draw the sample: the largest sample size over the planned classes,
         from ``seed`` (generated from OS entropy when None, and recorded).
 
@@ -639,9 +657,9 @@ class Workflow:
         structure = frame.structure_from_dict(data.lot.structure)
         n = max(p.sample_size for p in data.plans.values())
         try:
-            result = frame.draw(structure, n, method=method, seed=seed, by=by, containers=containers)
+            result = frame.draw(structure, n, method=method, seed=seed, by=level, containers=containers)
         except frame.FrameError as exc:
-            raise WorkflowError(exc.field, str(exc)) from None
+            raise _frame_refusal(exc, {"by": "level", "n": "sample"}) from None
         class_samples = {}
         for cls, plan in data.plans.items():
             if plan.sample_size == n:
@@ -665,12 +683,15 @@ class Workflow:
         }
         with self.store.transaction() as tx:
             data = self._load(tx, lot_id, "lot draw")
+            person_id = self._person(tx, by).id if by is not None else None
             self._check_drawable(data)
             if max(p.sample_size for p in data.plans.values()) != n:
                 raise WorkflowError("lot", f"lot draw: the plans of lot {data.lot.lot_id} changed meanwhile; draw again")
             entry = tx.add_draw(lot_id=data.lot.lot_id, method=method, seed=seed_record,
-                                algorithm=result.algorithm, units=result.units, details=details)
-            self._transition(tx, data.lot.lot_id, data.state, "drawn", detail={"draw_entry": entry})
+                                algorithm=result.algorithm, units=result.units, details=details,
+                                by_person=person_id)
+            self._transition(tx, data.lot.lot_id, data.state, "drawn", detail={"draw_entry": entry},
+                             by_person=person_id)
         return {"entry": entry, "lot": data.lot.lot_id, "method": method, "seed": seed_record,
                 "seed_generated": generated, "algorithm": result.algorithm, "units": list(result.units),
                 "class_samples": class_samples, "note": result.note}
@@ -912,7 +933,7 @@ class Workflow:
 
     # --- decision ------------------------------------------------------------------------------------
 
-    def decide(self, lot_id: str) -> dict:
+    def decide(self, lot_id: str, *, by: str | None = None) -> dict:
         """Decide the lot from its results.
 
         Refused while units are open (unless a class already reached its
@@ -923,6 +944,7 @@ class Workflow:
         """
         with self.store.transaction() as tx:
             data = self._load(tx, lot_id, "lot decide")
+            person_id = self._person(tx, by).id if by is not None else None
             lid = data.lot.lot_id
             tallies = self._tallies(data)
             computed = self._computed_decision(tallies)
@@ -937,14 +959,14 @@ class Workflow:
                                         for k, v in open_units.items())
                     raise WorkflowError("lot", f"lot decide: lot {lid} still has {count} open unit"
                                                f"{'s' if count != 1 else ''} ({listing})")
-                return self._decide_in(tx, data, tallies, by_person=None, why="every sampled unit inspected")
+                return self._decide_in(tx, data, tallies, by_person=person_id, why="every sampled unit inspected")
             # decided, on hold, released, rejected
             if last is not None and (computed == last.decision or computed is None
                                      or data.state in TERMINAL):
                 return {"entry": last.id, "decision": last.decision, "curtailed": last.curtailed,
                         "evidence": last.evidence, "already": True,
                         "matches_results": computed == last.decision}
-            return {**self._decide_in(tx, data, tallies, by_person=None,
+            return {**self._decide_in(tx, data, tallies, by_person=person_id,
                                       why=f"results corrected after decision entry {last.id if last else '-'}"),
                     "redecided": True}
 
@@ -992,7 +1014,7 @@ class Workflow:
             return (f"lot release: results of lot {lid} were corrected after the decision (entry {last.id}); "
                     "take the decision again with lot decide")
         if last.decision == "reject":
-            holds = [d for d in data.dispositions if d.disposition == "hold" and d.id > last.id]
+            holds = [d for d in data.dispositions if d.disposition == "hold"]
             if data.state != "on hold" or not holds:
                 return (f"lot release: lot {lid} was rejected (decision entry {last.id}); releasing it needs a "
                         "documented disposition first (lot hold with the reason)")

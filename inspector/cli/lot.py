@@ -63,6 +63,8 @@ _OPTION = {
     "name": "NAME",
     "role": "--role",
     "state": "--state",
+    "received_on": "--received",
+    "level": "--level",
 }
 
 
@@ -168,6 +170,8 @@ def register(subparsers) -> None:
     p.add_argument("--critical", action="store_true", help="food or safety-critical goods (results are advisory)")
     p.add_argument("--notes", metavar="TEXT", help="free notes about the delivery")
     p.add_argument("--resubmission-of", metavar="ID", help="the earlier lot this one resubmits")
+    p.add_argument("--received", metavar="DATE", help="date received, YYYY-MM-DD (default: today)")
+    p.add_argument("--by", type=_text_arg, metavar="NAME", help="who registers the lot")
     add_json(p)
     p.set_defaults(handler=_add)
 
@@ -182,6 +186,7 @@ def register(subparsers) -> None:
     p.add_argument("--accept", type=nonnegative_int, metavar="c", help="typed plan: acceptance number")
     p.add_argument("--class", dest="defect_class", choices=CLASS_CHOICES, default="major",
                    help="defect class (default major)")
+    p.add_argument("--by", type=_text_arg, metavar="NAME", help="who sets the plan")
     add_json(p)
     p.set_defaults(handler=_plan)
 
@@ -191,6 +196,7 @@ def register(subparsers) -> None:
     p.add_argument("--seed", type=_seed, metavar="S", help="whole number; without it one is generated and recorded")
     p.add_argument("--level", metavar="LEVEL", help="stratified/two-stage: the container level")
     p.add_argument("--containers", type=positive_int, metavar="k", help="two-stage: containers to open")
+    p.add_argument("--by", type=_text_arg, metavar="NAME", help="who draws (a person, unlike --by of inspector draw)")
     add_json(p)
     p.set_defaults(handler=_draw)
 
@@ -225,6 +231,7 @@ def register(subparsers) -> None:
 
     p = sub.add_parser("decide", help="decide from the results")
     p.add_argument("lot_id", metavar="ID")
+    p.add_argument("--by", type=_text_arg, metavar="NAME", help="who takes the decision (it is computed)")
     add_json(p)
     p.set_defaults(handler=_decide)
 
@@ -273,7 +280,7 @@ def _add(args) -> int:
             structure=args.structure, manifest_text=manifest_text,
             manifest_name=os.path.basename(args.manifest) if args.manifest else None,
             reference=args.reference, critical=args.critical, notes=args.notes,
-            resubmission_of=args.resubmission_of,
+            resubmission_of=args.resubmission_of, received_on=args.received, by=args.by,
         )
     payload = {k: shown[k] for k in ("id", "state", "supplier", "product", "reference", "size", "received_on",
                                      "critical", "structure", "cautions")}
@@ -305,7 +312,7 @@ def _plan(args) -> int:
     else:
         options = dict(sample=args.sample, accept=args.accept)
     with workflow_for(args) as wf:
-        plan = wf.plan(args.lot_id, defect_class=args.defect_class, **options)
+        plan = wf.plan(args.lot_id, defect_class=args.defect_class, by=args.by, **options)
 
     def text() -> str:
         d = plan["details"]
@@ -333,7 +340,7 @@ def _draw(args) -> int:
         drawn = wf.draw(args.lot_id, method=args.method,
                         seed=None if args.seed is None else args.seed.value,
                         seed_text=None if args.seed is None else args.seed.text,
-                        by=args.level, containers=args.containers)
+                        level=args.level, containers=args.containers, by=args.by)
         picks = wf.pick_list(args.lot_id)
     payload = {**drawn, "walking_order": picks["stops"]}
 
@@ -482,7 +489,7 @@ def show_text(s: dict) -> str:
 
 def _decide(args) -> int:
     with workflow_for(args) as wf:
-        decided = wf.decide(args.lot_id)
+        decided = wf.decide(args.lot_id, by=args.by)
     payload = {"decision": decided["decision"], "entry": decided["entry"], "curtailed": decided["curtailed"],
                "already_decided": bool(decided.get("already")), "redecided": bool(decided.get("redecided")),
                "classes": decided["evidence"].get("classes"), "estimate": decided["evidence"].get("estimates")}

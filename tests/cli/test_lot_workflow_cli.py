@@ -249,3 +249,18 @@ def test_a_correction_after_release_shows_changed_since_signed(cli):
     assert original["outcome"] == "pass" and correction["outcome"] == "fail"
     assert correction["reason"] == "found on re-check at dispatch" and correction["by"] == "Oskar Penhallow"
     assert "CHANGED SINCE SIGNED" in cli("lot", "show", LOT)[1]
+
+
+def test_draw_and_registration_options_are_named_in_refusals(cli):
+    registered(cli)
+    ok_json(cli("lot", "plan", LOT, "--sample", "36", "--accept", "1", "--json"))
+    refused(cli, "lot", "draw", LOT, "--method", "stratified", "--level", "crate",
+            match="--level: 'crate' is not a container level")
+    refused(cli, "lot", "add", "--id", "HP-2611-09", "--supplier", "Harrowgate Preserves", "--product", "jam",
+            "--size", "10", "--received", "2025-13-01", match="--received: expected a date as YYYY-MM-DD")
+    refused(cli, "lot", "draw", LOT, "--by", "Nobody Here", match="--by: no person called 'Nobody Here'")
+    drawn = ok_json(cli("lot", "draw", LOT, "--method", "stratified", "--level", "pallet", "--by", "Ines Marlowe",
+                        "--json"))
+    assert drawn["method"] == "stratified" and drawn["seed_generated"] is True and len(drawn["units"]) == 36
+    shown = ok_json(cli("lot", "show", LOT, "--json"))
+    assert shown["draw"]["seed"] == drawn["seed"] and shown["draw"]["rederived"] is True

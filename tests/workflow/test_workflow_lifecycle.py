@@ -455,3 +455,51 @@ def test_lots_are_listed_by_state_and_supplier(wf):
     assert [lot["id"] for lot in wf.lots(supplier="Quayside Tins")] == ["QT-0042"]
     with pytest.raises(WorkflowError, match="state: expected one of"):
         wf.lots(state="lost")
+
+
+# --- draws by container, attribution, dates ---------------------------------------------------------------
+
+
+def test_stratified_and_two_stage_draws_come_from_the_frame(wf, db):
+    register(wf)
+    wf.plan(LOT, sample=36, accept=1)
+    with refused(db, "level: 'crate' is not a container level"):
+        wf.draw(LOT, method="stratified", level="crate", seed=SEED)
+    with refused(db, "containers"):
+        wf.draw(LOT, method="two-stage", seed=SEED)  # k is needed
+    drawn = wf.draw(LOT, method="two-stage", level="carton", containers=6, seed=SEED)
+    assert drawn["algorithm"] == "two-stage-pps-v1" and "less precise" in drawn["note"]
+    shown = wf.show(LOT)
+    assert shown["draw"]["rederived"] is True and shown["draw"]["note"] == drawn["note"]
+
+
+def test_who_registered_planned_drew_and_decided_is_recorded_when_named(wf):
+    register(wf, by=INSPECTOR)
+    wf.plan(LOT, sample=3, accept=0, by=INSPECTOR)
+    units = wf.draw(LOT, seed=SEED, by=SECOND_INSPECTOR)["units"]
+    _record_all(wf, units)
+    wf.decide(LOT, by=APPROVER)
+    history = wf.export(LOT)["history"]
+    by_kind = {item["kind"]: item["by"] for item in history if item["kind"] != "event"}
+    assert by_kind["lot"] == INSPECTOR and by_kind["plan"] == INSPECTOR
+    assert by_kind["draw"] == SECOND_INSPECTOR and by_kind["decision"] == APPROVER
+
+
+def test_received_date_is_checked(wf, db):
+    with refused(db, "received_on: expected a date as YYYY-MM-DD, got '04/03/2025'"):
+        register(wf, received_on="04/03/2025")
+    register(wf, received_on="2025-03-03")
+    assert wf.show(LOT)["received_on"] == "2025-03-03"
+
+
+def test_a_held_lot_decided_again_can_still_be_released_or_rejected(wf, db):
+    units = drawn_lot(wf, sample=3, accept=0)
+    _record_all(wf, units)
+    wf.decide(LOT)  # accept
+    wf.hold(LOT, reason="label artwork query with the buyer", by=APPROVER)
+    wf.correct(LOT, units[0], outcome="fail", defect="wrong best-before date", reason="artwork checked",
+               by=INSPECTOR)
+    assert wf.decide(LOT)["decision"] == "reject"  # re-decided while on hold
+    assert wf.show(LOT)["state"] == "on hold"
+    released = wf.release(LOT, by=APPROVER, meaning="released after relabelling", secret=SECRETS[APPROVER])
+    assert released["state"] == "released"
