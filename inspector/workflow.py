@@ -523,10 +523,14 @@ class Workflow:
         consumer_risk: Any = "0.10",
         sample: int | None = None,
         accept: int | None = None,
+        level: str | None = None,
+        severity: str | None = None,
         by: str | None = None,
     ) -> dict:
         """Set the plan of one defect class: designed from AQL/RQL and the risks
-        at the actual lot size, or typed as n and c (its risks are computed).
+        at the actual lot size; typed as n and c (its risks are computed); or
+        looked up in the code-letter tables from AQL, ``level`` and
+        ``severity`` (with its exact risks at this lot size beside it).
 
         Allowed while the lot is registered or planned (before the draw); a new
         plan for a class replaces the earlier one, which stays in the record.
@@ -536,16 +540,57 @@ class Workflow:
 
         if defect_class not in CLASSES:
             raise WorkflowError("class", f"class: expected critical, major or minor, got {defect_class!r}")
-        risk_route = aql is not None or rql is not None
+        table_route = level is not None or severity is not None
+        if table_route:
+            if rql is not None or sample is not None or accept is not None:
+                raise WorkflowError("level", "level: a table plan takes --aql with --level/--severity only "
+                                             "(no --rql, --sample or --accept)")
+            if aql is None:
+                raise WorkflowError("aql", "aql: a table plan needs the AQL")
+        risk_route = not table_route and (aql is not None or rql is not None)
         typed_route = sample is not None or accept is not None
-        if risk_route == typed_route:
+        if not table_route and risk_route == typed_route:
             raise WorkflowError("plan", "plan: give either --aql and --rql, or --sample and --accept")
         with self.store.reading() as r:
             data = self._load(r, lot_id, "lot plan")
         N = data.lot.quantity
         if data.state not in ("registered", "planned"):
             raise WorkflowError("lot", f"lot plan: lot {data.lot.lot_id} is {data.state}; plans are set before the draw")
-        if risk_route:
+        if table_route:
+            from inspector.stats.table_risks import table_plan_risks
+            from inspector.stats.tables import TableError, lookup_plan
+
+            try:
+                tp = lookup_plan(lot_size=N, aql=aql, level=level or "II", severity=severity or "normal")
+                risks = table_plan_risks(tp)
+            except TableError as exc:
+                raise WorkflowError(exc.field, str(exc) if str(exc).startswith(exc.field)
+                                    else f"{exc.field}: {exc}") from None
+            except ValueError as exc:
+                raise WorkflowError("aql", f"aql: {exc}") from None
+            n, c = tp.sample_size, tp.acceptance_number
+            if tp.rejection_number != c + 1:  # single plans of Tables II-A/II-B have Re = Ac + 1
+                raise WorkflowError("level", f"level: the table gives Ac {c}, Re {tp.rejection_number}; only "
+                                             "plans with Re = Ac + 1 are supported")
+            details = {
+                "model": "code-letter table (MIL-STD-105E Tables I, II-A/II-B); exact risks at the lot size beside it",
+                "lot_size": N,
+                "full_inspection": tp.full_inspection,
+                "code_letter": tp.code_letter,
+                "plan_letter": tp.plan_letter,
+                "table_sample_size": tp.table_sample_size,
+                "provenance": tp.provenance,
+                "sources": list(tp.sources),
+                "notes": list(tp.notes) + list(risks.notes),
+                "pa_at_aql_lot": risks.pa_at_aql_lot,
+                "pa_at_aql_process": risks.pa_at_aql_process,
+                "rql_at_consumer_risk_lot": risks.rql_at_consumer_risk_lot,
+                "rql_at_consumer_risk_process": risks.rql_at_consumer_risk_process,
+                "differ_materially": risks.differ_materially,
+            }
+            chosen_by = "table"
+            stored = {"aql": tp.aql, "level": tp.level, "severity": tp.severity}
+        elif risk_route:
             if aql is None or rql is None:
                 raise WorkflowError("aql" if aql is None else "rql", "plan: --aql and --rql go together")
             a, r_, alpha, beta = (_fraction(aql, "aql"), _fraction(rql, "rql"),
@@ -1140,7 +1185,8 @@ class Workflow:
         plans = {
             k: {"entry": p.id, "chosen_by": p.chosen_by, "sample_size": p.sample_size, "accept": p.accept,
                 "reject": p.reject, "aql": p.aql, "rql": p.rql, "producer_risk": p.producer_risk,
-                "consumer_risk": p.consumer_risk, "details": p.details, "at": p.recorded_at}
+                "consumer_risk": p.consumer_risk, "level": p.level, "severity": p.severity,
+                "details": p.details, "at": p.recorded_at}
             for k, p in data.plans.items()
         }
         cautions = [SAMPLING_CAUTION]

@@ -176,7 +176,8 @@ def register(subparsers) -> None:
     p.set_defaults(handler=_add)
 
     p = sub.add_parser("plan", help="set the sampling plan of a defect class",
-                       description="Design the plan from AQL/RQL and risks at the actual lot size, or type n and c.")
+                       description="Design the plan from AQL/RQL and risks at the actual lot size, type n and c, "
+                                   "or look it up in the code-letter tables (--aql with --level/--severity).")
     p.add_argument("lot_id", metavar="ID")
     p.add_argument("--aql", type=_percent_text, metavar="PCT", help="acceptable quality level, percent")
     p.add_argument("--rql", type=_percent_text, metavar="PCT", help="rejectable quality level, percent")
@@ -184,6 +185,8 @@ def register(subparsers) -> None:
     p.add_argument("--consumer-risk", type=_probability_text, metavar="BETA", help="default 0.10")
     p.add_argument("--sample", type=positive_int, metavar="n", help="typed plan: sample size")
     p.add_argument("--accept", type=nonnegative_int, metavar="c", help="typed plan: acceptance number")
+    p.add_argument("--level", metavar="L", help="table plan: inspection level (S-1..S-4, I, II, III)")
+    p.add_argument("--severity", choices=("normal", "tightened"), help="table plan: normal or tightened")
     p.add_argument("--class", dest="defect_class", choices=CLASS_CHOICES, default="major",
                    help="defect class (default major)")
     p.add_argument("--by", type=_text_arg, metavar="NAME", help="who sets the plan")
@@ -291,6 +294,8 @@ def _add(args) -> int:
 
 
 def _plan(args) -> int:
+    if args.level is not None or args.severity is not None:
+        return _table_plan(args)
     risk = args.aql is not None or args.rql is not None or args.producer_risk is not None \
         or args.consumer_risk is not None
     typed = args.sample is not None or args.accept is not None
@@ -318,20 +323,51 @@ def _plan(args) -> int:
         d = plan["details"]
         rows = [["class", plan["class"]], ["sample size n", str(plan["sample_size"])],
                 ["acceptance number Ac", str(plan["accept"])], ["rejection number Re", str(plan["reject"])]]
-        if plan["chosen_by"] == "risk":
+        if plan["chosen_by"] == "table":
+            rows += [["code letter", f"{d['code_letter']} (plan from {d['plan_letter']})"],
+                     ["cells", d["provenance"]]]
+            if d["pa_at_aql_lot"] is not None:
+                rows.append([f"Pa at AQL {plan['aql']} % (this lot)", f"{d['pa_at_aql_lot']:.4f}"])
+        elif plan["chosen_by"] == "risk":
             rows += [[f"Pa at AQL {plan['aql']} %", f"{d['pa_at_aql']:.4f}"],
                      [f"Pa at RQL {plan['rql']} %", f"{d['pa_at_rql']:.4f}"]]
             if d["full_inspection"]:
                 rows.append(["note", "no smaller plan meets both risks: inspect every unit"])
         else:
             rows.append(["risks at this lot size", d["reading"]])
-        rows.append(["AOQL", f"{100 * d['aoql']:.3f} %"])
+        if "aoql" in d:
+            rows.append(["AOQL", f"{100 * d['aoql']:.3f} %"])
         out = f"Plan for lot {plan['lot']} ({plan['chosen_by']}):\n" + table(rows)
         if d.get("caution"):
             out += "\n" + d["caution"]
         return out
 
     emit(args, plan, text)
+    return 0
+
+
+def _table_plan(args) -> int:
+    if args.rql is not None or args.sample is not None or args.accept is not None \
+            or args.producer_risk is not None or args.consumer_risk is not None:
+        raise UsageError("--level/--severity: a table plan takes --aql only (no --rql, risks, --sample or --accept)")
+    if args.aql is None:
+        raise UsageError("--aql: a table plan needs --aql")
+    level = None
+    if args.level is not None:
+        from inspector.cli.plan_table import level as level_type
+
+        try:
+            level = level_type(args.level)
+        except argparse.ArgumentTypeError as exc:
+            raise UsageError(f"--level: {exc}") from None
+    with workflow_for(args) as wf:
+        plan = wf.plan(args.lot_id, defect_class=args.defect_class, aql=args.aql, level=level or "II",
+                       severity=args.severity or "normal", by=args.by)
+    d = plan["details"]
+    emit(args, plan, lambda: "\n".join(
+        [f"Plan for lot {plan['lot']} from the tables: {plan['class']}, level {plan['level']}, {plan['severity']}, "
+         f"AQL {plan['aql']}", f"code letter {d['code_letter']}: n={plan['sample_size']} Ac={plan['accept']} "
+         f"Re={plan['reject']}"] + d["notes"]))
     return 0
 
 
@@ -440,7 +476,9 @@ def show_text(s: dict) -> str:
     if s["plans"]:
         lines.append("Plans:")
         for cls, p in s["plans"].items():
-            how = f"AQL {p['aql']} % / RQL {p['rql']} %" if p["chosen_by"] == "risk" else "typed"
+            how = {"risk": f"AQL {p['aql']} % / RQL {p['rql']} %",
+                   "table": f"table, level {p.get('level')}, {p.get('severity')}, AQL {p['aql']}"}.get(
+                       p["chosen_by"], "typed")
             lines.append(f"  {cls}: n={p['sample_size']} Ac={p['accept']} Re={p['reject']} ({how}), entry {p['entry']}")
     if s["draw"]:
         d = s["draw"]

@@ -264,3 +264,14 @@ def test_draw_and_registration_options_are_named_in_refusals(cli):
     assert drawn["method"] == "stratified" and drawn["seed_generated"] is True and len(drawn["units"]) == 36
     shown = ok_json(cli("lot", "show", LOT, "--json"))
     assert shown["draw"]["seed"] == drawn["seed"] and shown["draw"]["rederived"] is True
+
+
+def test_a_table_plan_from_the_cli(cli):
+    registered(cli)
+    plan = ok_json(cli("lot", "plan", LOT, "--aql", "1.0", "--level", "ii", "--json"))
+    assert plan["chosen_by"] == "table" and plan["level"] == "II"
+    # 15552 jars at level II -> code letter M (10001-35000), n = 315: MIL-STD-105E Table I,
+    # confirmed in ../shared/reference-values.md 5a/5b.
+    assert plan["details"]["code_letter"] == "M" and plan["sample_size"] == 315
+    refused(cli, "lot", "plan", LOT, "--aql", "1.0", "--level", "IV", match="--level: expected one of")
+    refused(cli, "lot", "plan", LOT, "--aql", "1.0", "--rql", "8", "--severity", "tightened", match="--aql only")

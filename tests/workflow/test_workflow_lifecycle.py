@@ -503,3 +503,18 @@ def test_a_held_lot_decided_again_can_still_be_released_or_rejected(wf, db):
     assert wf.show(LOT)["state"] == "on hold"
     released = wf.release(LOT, by=APPROVER, meaning="released after relabelling", secret=SECRETS[APPROVER])
     assert released["state"] == "released"
+
+
+def test_a_plan_can_come_from_the_code_letter_tables(wf, db):
+    wf.register_lot(lot_id="QT-5000", supplier="Quayside Tins", product="peach halves 410 g tin", size=5000)
+    plan = wf.plan("QT-5000", aql="1.5", level="II")
+    # Lot 5000 at general level II -> code letter L, n = 200, AQL 1.5 -> Ac 7 / Re 8:
+    # MIL-STD-105E Table I and II-A, as worked in the cgfinspections.com and
+    # apparelscience.com lookups (docs: ../shared/reference-values.md, 5a/5c).
+    assert (plan["details"]["code_letter"], plan["sample_size"], plan["accept"], plan["reject"]) == ("L", 200, 7, 8)
+    assert plan["chosen_by"] == "table" and plan["severity"] == "normal"
+    assert wf.show("QT-5000")["plans"]["major"]["level"] == "II"
+    with refused(db, "aql: AQL 1.3 is not a column of the table"):
+        wf.plan("QT-5000", aql="1.3", level="II")
+    with refused(db, "no --rql"):
+        wf.plan("QT-5000", aql="1.5", rql="8", level="II")
