@@ -15,7 +15,7 @@ from fractions import Fraction
 import numpy as np
 
 from inspector.sheets import fmt
-from inspector.sheets.fonts import BOLD, REGULAR, runs
+from inspector.sheets.fonts import BOLD, REGULAR, register_fonts, runs
 from inspector.sheets.model import SheetEstimate, SheetPlan
 
 #: Points along the curve (more would not show at print resolution).
@@ -81,6 +81,7 @@ def oc_chart(plan: SheetPlan, estimate: SheetEstimate | None, *, width: float, h
     from reportlab.graphics.shapes import Circle, Drawing, Line, Rect
     from reportlab.lib import colors
 
+    register_fonts()
     points = curve_points(plan, estimate)
     N = plan.lot_size
     xs = [100.0 * d / N for d in points.defectives]

@@ -227,11 +227,18 @@ class _Table:
         self.seen.add(name)
         return self.data.get(name, default)
 
+    def missing(self, name: str, expected: str) -> FormError:
+        import difflib
+
+        near = difflib.get_close_matches(name, [k for k in self.data if k not in self.seen], n=1)
+        hint = f"; is {near[0]!r} a misspelling?" if near else ""
+        return self.error(name, f"missing (expected {expected}{hint})")
+
     def text(self, name: str, *, required: bool = True, default: str | None = None, empty_ok: bool = False):
         value = self.get(name)
         if value is None:
             if required:
-                raise self.error(name, "missing (expected text)")
+                raise self.missing(name, "text")
             return default
         if not isinstance(value, str):
             raise self.error(name, f"expected text, got {_kind(value)} {value!r}")
@@ -258,7 +265,7 @@ class _Table:
         value = self.get(name)
         if value is None:
             if default is None:
-                raise self.error(name, f"missing (expected a number from {low:g} to {high:g})")
+                raise self.missing(name, f"a number from {low:g} to {high:g}")
             return default
         ok_type = isinstance(value, int) if whole else isinstance(value, (int, float))
         if isinstance(value, bool) or not ok_type or not math.isfinite(value) or not low <= value <= high:
@@ -282,7 +289,7 @@ class _Table:
         value = self.get(name)
         if value is None:
             if required:
-                raise self.error(name, "missing table")
+                raise self.missing(name, "a table")
             return None
         return _Table(self.path, self.key(name), value)
 
