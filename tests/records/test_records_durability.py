@@ -90,13 +90,17 @@ def test_acknowledged_results_survive_sigkill_at_random_moments(tmp_path):
     started = time.monotonic()
     for run in range(KILLS):
         proc = _spawn(path, person, first=run * 100_000 + 1, count=50_000)
+        seen = ""
         if rng.random() < 0.2:
             time.sleep(rng.uniform(0, 0.08))  # maybe still starting up or opening the store
         else:
             assert proc.stdout.readline() == "ready\n"
-            time.sleep(rng.uniform(0, 0.12))  # somewhere in the stream of commits
+            seen = proc.stdout.readline()  # the first commit is through: now in the stream of commits
+            assert seen.startswith("ack "), seen
+            time.sleep(rng.uniform(0, 0.1))
         proc.send_signal(signal.SIGKILL)
         stdout, stderr = proc.communicate(timeout=30)
+        stdout = seen + stdout
         assert proc.returncode == -signal.SIGKILL or proc.returncode == 0, stderr
         assert "Traceback" not in stderr, stderr
         run_acks = _acks(stdout)
@@ -104,7 +108,7 @@ def test_acknowledged_results_survive_sigkill_at_random_moments(tmp_path):
         acknowledged += run_acks
     elapsed = time.monotonic() - started
     # the test means something only if kills landed amid recording
-    assert killed_while_recording >= KILLS // 3, f"seed {seed}: too few runs got to record"
+    assert killed_while_recording >= KILLS // 2, f"seed {seed}: too few runs got to record"
     results = _check_whole(path, acknowledged)
     assert len(results) >= len(acknowledged)
     assert elapsed < 60, f"seed {seed}: {KILLS} kill runs took {elapsed:.1f} s"
