@@ -426,7 +426,9 @@ class _Builder:
             ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
         ]
         for i, c in enumerate(cols):
-            if c.align == "right":
+            if c.field == "check":
+                style.append(("ALIGN", (i, 1), (i, -1), "CENTER"))
+            elif c.align == "right":
                 style.append(("ALIGN", (i, 1), (i, -1), "RIGHT"))
             elif c.align == "centre":
                 style.append(("ALIGN", (i, 1), (i, -1), "CENTER"))
@@ -575,7 +577,7 @@ class _Builder:
             if name == "check":
                 out.append(_Box())
             elif name == "unit":
-                out.append(fmt.number(u.unit))
+                out.append(str(u.unit))
             elif name == "container":
                 out.append(self.t(u.address.rsplit(" / ", 1)[0] if " / " in u.address else "", widths[name]))
             elif name == "position":
@@ -803,7 +805,7 @@ class _Builder:
             for c in section.columns:
                 v = {
                     "class": self.p(fmt.CLASS_NAMES[r.defect_class]),
-                    "unit": fmt.number(r.unit),
+                    "unit": str(r.unit),
                     "address": self.p(r.address or fmt.DASH),
                     "defect": self.p(r.defect or fmt.DASH),
                     "note": self.p(r.note or ""),
@@ -822,7 +824,7 @@ class _Builder:
             row = []
             for c in section.columns:
                 v = {
-                    "unit": fmt.number(k.unit),
+                    "unit": str(k.unit),
                     "class": self.p(fmt.CLASS_NAMES.get(k.defect_class, k.defect_class)),
                     "was": self.p(k.was),
                     "now": self.p(k.now),
@@ -977,7 +979,7 @@ def _draw_label(c: Canvas, form: Form, data: SheetData, u: SheetUnit, x, y, w, h
         if line == "code":
             continue
         if line == "unit":
-            size, font, text = 11, BOLD, f"Unit {fmt.number(u.unit)}"
+            size, font, text = 11, BOLD, f"Unit {u.unit}"
         elif line == "lot_id":
             size, font, text = 7.5, BOLD, f"Lot {data.lot.lot_id}"
         elif line == "address":
