@@ -239,16 +239,20 @@ class Store:
             try:
                 tx = Transaction(self._conn, now=timestamp(self.clock))
                 yield tx
-            except BaseException:
+            except BaseException as exc:
                 if self._conn.in_transaction:
                     self._conn.execute("ROLLBACK")
+                if isinstance(exc, sqlite3.Error):  # disk full, I/O error ...: one line, not a traceback
+                    raise StoreError(f"store {str(self.path)!r}: {exc}; nothing was recorded") from exc
                 raise
             else:
                 try:
                     self._retrying_commit()
-                except BaseException:
+                except BaseException as exc:
                     if self._conn.in_transaction:
                         self._conn.execute("ROLLBACK")
+                    if isinstance(exc, sqlite3.Error):
+                        raise StoreError(f"store {str(self.path)!r}: {exc}; nothing was recorded") from exc
                     raise
             finally:
                 if tx is not None:
@@ -277,9 +281,17 @@ class Store:
             if self._conn.in_transaction:
                 yield Reader(self._conn)
                 return
-            self._retrying(lambda: self._conn.execute("BEGIN DEFERRED"))
+            def begin():
+                self._conn.execute("BEGIN DEFERRED")
+                # The first read takes the snapshot; once it has, later reads in
+                # this transaction never wait, so "busy" can only happen here.
+                self._conn.execute("SELECT 1 FROM sqlite_master LIMIT 1").fetchall()
+
+            self._retrying(begin)
             try:
                 yield Reader(self._conn)
+            except sqlite3.Error as exc:
+                raise StoreError(f"store {str(self.path)!r}: {exc}") from exc
             finally:
                 if self._conn.in_transaction:
                     self._conn.execute("COMMIT")

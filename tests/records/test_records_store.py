@@ -233,3 +233,16 @@ def test_foreign_keys_are_enforced(store):
     with pytest.raises(StoreError, match="FOREIGN KEY"):
         with store.transaction() as tx:
             tx.add_result(lot_id="NO-SUCH-LOT", unit=1, defect_class="major", outcome="pass", by_person=1)
+
+
+def test_a_database_error_inside_a_transaction_is_one_line_and_records_nothing(store):
+    import sqlite3 as _sqlite3
+
+    with pytest.raises(StoreError, match="nothing was recorded") as info:
+        with store.transaction() as tx:
+            tx.add_supplier("Harrowgate Preserves")
+            tx._conn.execute("INSERT INTO no_such_table VALUES (1)")  # stands in for disk full, I/O error
+    assert isinstance(info.value.__cause__, _sqlite3.OperationalError)
+    assert "\n" not in str(info.value)
+    with store.reading() as r:
+        assert r.suppliers() == []
