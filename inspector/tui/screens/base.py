@@ -135,4 +135,4 @@ class LotScreen(Screen):
             bar.update(escape(f"{self.TITLE_WORDS} · lot {self.lot_id}"))
             return
         flag = " · ⚠ food/safety-critical" if rep.get("critical") else ""
-        bar.update(escape(f"{self.TITLE_WORDS} · {rep['id']} · {rep['product']} · {state_words(rep['state'])}{flag}"))
+        bar.update(escape(f"{self.TITLE_WORDS} · {rep['id']} · {state_words(rep['state'])}{flag} · {rep['product']}"))

@@ -227,7 +227,7 @@ class DrawScreen(LotScreen):
         method = self.query_one("#method", Select).value
         by = self.query_one("#by", Select).value
         by = None if by is Select.NULL or by is Select.BLANK or by in (None, "") else by
-        kwargs: dict = {"method": method, "by": by}
+        kwargs: dict = {"method": method, "level": by, "by": self.app.current_inspector()}
         containers_text = self.query_one("#containers", Input).value.strip()
         seed_text = self.query_one("#seed", Input).value.strip()
         try:

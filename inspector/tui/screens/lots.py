@@ -80,9 +80,9 @@ class LotsScreen(Screen):
 
     def on_mount(self) -> None:
         table = self.query_one("#lots", DataTable)
-        for label, key, width in (("lot", "lot", 12), ("state", "state", 12), ("supplier", "supplier", 14),
-                                  ("product", "product", 14), ("size", "size", 6), ("done", "done", 9),
-                                  ("decision", "decision", 9)):
+        for label, key, width in (("lot", "lot", 10), ("state", "state", 12), ("supplier", "supplier", 11),
+                                  ("product", "product", 11), ("size", "size", 6), ("done", "done", 7),
+                                  ("decision", "decision", 8)):
             table.add_column(label, key=key, width=width)
         table.focus()
         self.refresh_lots()

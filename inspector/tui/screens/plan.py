@@ -370,6 +370,7 @@ class PlanScreen(LotScreen):
         else:
             # The workflow takes a table plan as its n and c; the look-up is in the label.
             kwargs = dict(defect_class=cls, sample=f.sample_size, accept=f.accept)
+        kwargs["by"] = self.app.current_inspector()
         self.notice().say("info", f"saving the {cls} plan …")
         self._adopt(kwargs)
 

@@ -145,6 +145,7 @@ class RegisterScreen(Screen):
             structure=optional("structure"), manifest_text=manifest_text, manifest_name=manifest_name,
             reference=optional("reference"), received_on=optional("received_on"), notes=optional("notes"),
             critical=self.query_one("#f-critical", Checkbox).value,
+            by=self.app.current_inspector(),
         )
         self.saving = True
         self.query_one(Notice).say("info", "saving …")

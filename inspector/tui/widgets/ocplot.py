@@ -44,7 +44,7 @@ class OCPlot(Widget):
     COMPONENT_CLASSES = {"ocplot--curve", "ocplot--compare", "ocplot--mark", "ocplot--axis"}
 
     DEFAULT_CSS = """
-    OCPlot { height: 1fr; min-height: 8; }
+    OCPlot { width: 1fr; height: 1fr; min-height: 8; }
     OCPlot > .ocplot--curve { color: $primary; text-style: bold; }
     OCPlot > .ocplot--compare { color: $secondary; }
     OCPlot > .ocplot--mark { color: $warning; }

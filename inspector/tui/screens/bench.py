@@ -1,0 +1,580 @@
+"""Bench: one entry field, then one key per verdict.
+
+Scan or type a unit (number, address, manifest serial or the code on its
+label) and submit it with Enter, Tab or ctrl+j. The unit goes "on the
+bench" and the verdict keys apply to it: ``p`` or space passes it in every
+class still open for it, ``1``/``2``/``3`` fail it in the critical, major
+or minor class. ``d`` and ``n`` add a defect description and a note first.
+
+* What cannot be a unit of this lot's sample is refused on the spot: the
+  text stays in the field (selected, so the next scan replaces it) and
+  nothing is recorded.
+* A unit that already has its results is a duplicate scan: a warning shows
+  the earlier entry; ``c`` corrects it (asking for a reason); the original
+  stays in the list, marked as corrected.
+* "saved" appears only after the workflow returned, i.e. after the store
+  committed. A store failure shows a message that stays, and the unit and
+  the typed text stay on the bench.
+* The tally shows each class against Ac/Re; when a class reaches its
+  rejection number the lot is decided at once and a notice says so.
+"""
+
+from __future__ import annotations
+
+import time
+from typing import Any
+
+from rich.markup import escape
+from textual import on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal
+from textual.message import Message
+from textual.widgets import DataTable, Input, Label, Static
+
+from inspector.tui.screens.base import LotScreen, Notice, TopBar, one_line
+from inspector.tui.widgets import KeyStrip, ScanField, Tally, verdict_words
+
+FAIL_KEYS = {"1": "critical", "2": "major", "3": "minor"}
+
+
+class ResultRecorded(Message):
+    """The store committed one or more result entries for a unit."""
+
+    def __init__(self, outcome: Any, rows: list[dict], corrected: int | None = None) -> None:
+        super().__init__()
+        self.outcome = outcome
+        self.rows = rows
+        self.corrected = corrected
+
+
+class RecordRefused(Message):
+    """The workflow refused the entry (nothing was written)."""
+
+    def __init__(self, error: str, *, store_failure: bool = False) -> None:
+        super().__init__()
+        self.error = error
+        self.store_failure = store_failure
+
+
+class BenchReady(Message):
+    def __init__(self, structure: Any) -> None:
+        super().__init__()
+        self.structure = structure
+
+
+class VerdictPad(Static, can_focus=True):
+    """The unit on the bench; holds the verdict keys while it has the focus."""
+
+    BINDINGS = [
+        Binding("p", "verdict('pass')", "pass"),
+        Binding("space", "verdict('pass')", "pass", show=False),
+        Binding("1", "verdict('fail', 'critical')", "fail critical"),
+        Binding("2", "verdict('fail', 'major')", "fail major"),
+        Binding("3", "verdict('fail', 'minor')", "fail minor"),
+        Binding("d", "extra('defect')", "defect text"),
+        Binding("n", "extra('note')", "note"),
+        Binding("c", "correct", "correct"),
+        Binding("escape", "leave", "leave unit"),
+        # A scanner's trailing Enter, Tab or line feed must not act here.
+        Binding("enter", "nothing", show=False),
+        Binding("tab", "nothing", show=False),
+        Binding("ctrl+j", "nothing", show=False),
+    ]
+
+    def check_action(self, action: str, parameters: tuple) -> bool | None:
+        bench = self.screen
+        if not isinstance(bench, BenchScreen):
+            return True
+        return bench.pad_allows(action, parameters)
+
+    def action_verdict(self, outcome: str, defect_class: str | None = None) -> None:
+        self.screen.give_verdict(outcome, defect_class)
+
+    def action_extra(self, which: str) -> None:
+        self.screen.query_one(f"#{which}", Input).focus()
+
+    def action_correct(self) -> None:
+        self.screen.start_correction()
+
+    def action_leave(self) -> None:
+        self.screen.leave_unit()
+
+    def action_nothing(self) -> None:
+        pass
+
+    def on_key(self, event) -> None:
+        # Any other printable key starts a new entry: hand it to the field.
+        if event.is_printable and event.character and event.key not in ("p", "space", "1", "2", "3", "d", "n", "c"):
+            self.screen.redirect_to_entry(event.character)
+            event.stop()
+            event.prevent_default()
+
+
+class BenchScreen(LotScreen):
+    """Record results unit by unit."""
+
+    NAME = "bench"
+    TITLE_WORDS = "bench"
+    CSS_PATH = "bench.tcss"
+    BINDINGS = [
+        Binding("ctrl+n", "next_inspector", "next inspector", priority=True),
+        Binding("ctrl+r", "decide", "decide now", priority=True),
+    ]
+
+    def __init__(self, lot_id: str) -> None:
+        super().__init__(lot_id)
+        self.structure = None
+        self.samples: dict[str, set[int]] = {}  # class -> units of its sample
+        self.current: dict[tuple[int, str], dict] = {}  # (unit, class) -> latest entry
+        self.tallies: dict[str, dict] = {}
+        self.staged = None  # lookup.Resolved
+        self.correcting: str | None = None  # the reason, while a correction waits for its verdict
+        self.pending = False
+        self.row_of_entry: dict[int, str] = {}
+        # Timing of the last entry, from its key to the refresh that showed
+        # it saved (read by benchmarks/bench_tui.py).
+        self.key_time: float | None = None
+        self.last_latency: float | None = None
+
+    def compose(self) -> ComposeResult:
+        yield TopBar(f"bench · lot {self.lot_id}")
+        yield Label("unit number, address, serial or label code — Enter, Tab or ctrl+j submits", id="prompt")
+        yield ScanField(placeholder="scan or type a unit", id="entry")
+        yield Notice("", id="notice", classes="notice")
+        yield VerdictPad("", id="pad")
+        with Horizontal(id="extras"):
+            yield Label("defect")
+            yield Input("", placeholder="optional description", id="defect")
+            yield Label("note")
+            yield Input("", placeholder="optional", id="note")
+        yield Tally(id="tally")
+        yield Static("", id="early")
+        table = DataTable(id="recent", cursor_type="row", zebra_stripes=True)
+        yield table
+        yield KeyStrip()
+
+    def on_mount(self) -> None:
+        table = self.query_one("#recent", DataTable)
+        for label, key, width in (("entry", "entry", 5), ("unit", "unit", 6), ("class", "class", 8),
+                                  ("result", "result", 11), ("defect · note", "text", 18), ("by", "by", 9),
+                                  ("at", "at", 5)):
+            table.add_column(label, key=key, width=width)
+        self.query_one("#early", Static).display = False
+        if self.app.bench_person is None:
+            self.app.bench_person = self.app.current_inspector()
+        self.show_pad()
+        self.query_one("#entry", ScanField).focus()
+        self._prepare()
+        self.reload()
+
+    @work(thread=True, exclusive=True, group="structure")
+    def _prepare(self) -> None:
+        from inspector.tui.lookup import lot_structure
+
+        try:
+            structure = lot_structure(self.app.services.store, self.lot_id)
+        except Exception as exc:  # noqa: BLE001
+            self.post_message(RecordRefused(one_line(exc)))
+            return
+        self.post_message(BenchReady(structure))
+
+    def on_bench_ready(self, message: BenchReady) -> None:
+        self.structure = message.structure
+
+    # --- the record on view ---------------------------------------------------------------------
+
+    def populate(self, report: dict) -> None:
+        classes = report.get("classes") or {}
+        self.tallies = {k: dict(v) for k, v in classes.items()}
+        current = {}
+        for r in report.get("results", []):
+            if r.get("current"):
+                current[(r["unit"], r["class"])] = r
+        self.current = current
+        samples: dict[str, set[int]] = {}
+        for cls, t in classes.items():
+            units = set(t.get("open_units", ()))
+            units.update(u for (u, c) in current if c == cls)
+            samples[cls] = units
+        self.samples = samples
+        table = self.query_one("#recent", DataTable)
+        table.clear()
+        self.row_of_entry.clear()
+        superseded = {r["corrects"]: r["entry"] for r in report.get("results", []) if r.get("corrects")}
+        for r in report.get("results", []):
+            self.add_result_row(r, superseded_by=superseded.get(r["entry"]))
+        if table.row_count:
+            table.move_cursor(row=table.row_count - 1, animate=False)
+        self.query_one(Tally).show_tallies(self.tallies)
+        self.show_state(report)
+        self.update_top_bar()
+
+    def update_top_bar(self) -> None:
+        who = self.app.current_inspector() or "nobody (register people first)"
+        self.query_one(TopBar).update(escape(self._bar_text() + f" · by {who}"))
+
+    def _bar_text(self) -> str:
+        rep = self.report
+        if rep is None:
+            return f"bench · lot {self.lot_id}"
+        flag = " · ⚠ food" if rep.get("critical") else ""
+        from inspector.tui.app import state_words
+
+        return f"bench · {rep['id']} · {state_words(rep['state'])}{flag}"
+
+    def show_state(self, report: dict) -> None:
+        early = self.query_one("#early", Static)
+        state = report["state"]
+        if state in ("registered", "planned"):
+            self.notice().say("warning", f"lot {self.lot_id} is {state}: draw the sample first (F3)")
+        decision = report.get("decision")
+        if decision and state != "inspecting":
+            detail = report.get("decision_detail") or {}
+            how = "EARLY " if detail.get("curtailed") else ""
+            early.update(escape(f"■ LOT DECIDED {how}— {verdict_words(decision)} · {detail.get('why', '')} · "
+                                "F5 shows the decision; corrections are still possible (c)"))
+            early.display = True
+        else:
+            early.display = False
+
+    def add_result_row(self, r: dict, *, superseded_by: int | None = None) -> None:
+        table = self.query_one("#recent", DataTable)
+        text = " · ".join(t for t in (r.get("defect"), r.get("note")) if t)
+        if r.get("corrects"):
+            text = f"corrects {r['corrects']}: {r.get('reason') or ''}" + (f" · {text}" if text else "")
+        result = r["outcome"]
+        if superseded_by:
+            result += f" ✎→{superseded_by}"
+        at = (r.get("at") or "")[11:16]
+        key = str(r["entry"])
+        table.add_row(str(r["entry"]), str(r["unit"]), r["class"], result, text, r.get("by") or "", at, key=key)
+        self.row_of_entry[r["entry"]] = key
+
+    def mark_superseded(self, entry: int, by_entry: int, outcome: str) -> None:
+        table = self.query_one("#recent", DataTable)
+        key = self.row_of_entry.get(entry)
+        if key is not None:
+            table.update_cell(key, "result", f"{outcome} ✎→{by_entry}")
+
+    # --- the unit on the bench ------------------------------------------------------------------------
+
+    def holding(self, unit: int) -> list[str]:
+        return [cls for cls, units in self.samples.items() if unit in units]
+
+    def open_classes(self, unit: int) -> list[str]:
+        return [cls for cls in self.holding(unit) if (unit, cls) not in self.current]
+
+    def show_pad(self) -> None:
+        pad = self.query_one("#pad", VerdictPad)
+        s = self.staged
+        if s is None:
+            pad.update("no unit on the bench")
+            pad.set_class(False, "-staged")
+            self.refresh_bindings()
+            return
+        pad.set_class(True, "-staged")
+        open_ = self.open_classes(s.unit)
+        done = [cls for cls in self.holding(s.unit) if (s.unit, cls) in self.current]
+        lines = [f"▶ unit {s.unit} · {s.address}" + (f" · serial {s.serial}" if s.serial else "")]
+        parts = []
+        if open_:
+            parts.append("open in: " + ", ".join(open_))
+        if done:
+            parts.append("recorded: " + ", ".join(f"{c} {self.current[(s.unit, c)]['outcome']} "
+                                                  f"(entry {self.current[(s.unit, c)]['entry']})" for c in done))
+        lines.append(" · ".join(parts))
+        if self.correcting:
+            lines.append(f"CORRECTING (reason: {self.correcting}) — press the new verdict")
+        elif self.pending:
+            lines.append("saving …")
+        elif open_:
+            lines.append("p pass · " + " · ".join(f"{k} fail {c}" for k, c in FAIL_KEYS.items() if c in open_))
+        else:
+            lines.append("every class recorded: c corrects, Esc leaves")
+        pad.update(escape("\n".join(lines)))
+        self.refresh_bindings()
+
+    def pad_allows(self, action: str, parameters: tuple) -> bool | None:
+        s = self.staged
+        if action == "verdict":
+            if s is None or self.pending:
+                return False
+            if self.correcting:
+                outcome = parameters[0]
+                cls = parameters[1] if len(parameters) > 1 else None
+                return cls is None or cls in self.holding(s.unit)
+            open_ = self.open_classes(s.unit)
+            if parameters[0] == "pass":
+                return bool(open_)
+            return parameters[1] in open_
+        if action == "correct":
+            return s is not None and not self.pending and any((s.unit, c) in self.current for c in self.holding(s.unit))
+        if action in ("extra", "leave"):
+            return s is not None
+        return True
+
+    @on(Input.Submitted, "#entry")
+    def _entry_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        self.stage(event.value)
+
+    @on(Input.Submitted, "#defect")
+    @on(Input.Submitted, "#note")
+    def _extra_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        self.query_one("#pad", VerdictPad).focus() if self.staged else self.query_one("#entry").focus()
+
+    def stage(self, text: str) -> None:
+        from inspector.tui.lookup import EntryError, resolve_entry
+
+        entry = self.query_one("#entry", ScanField)
+        if self.pending:
+            self.notice().say("warning", "the last entry is still being saved; submit again in a moment")
+            entry.keep_for_retyping()
+            return
+        if self.structure is None or self.report is None:
+            self.notice().say("warning", "the lot is still loading; submit again in a moment")
+            entry.keep_for_retyping()
+            return
+        if not self.report.get("draw"):
+            self.notice().say("error", f"lot {self.lot_id} has no sample drawn yet (F3); nothing recorded")
+            entry.keep_for_retyping()
+            return
+        left = self.staged
+        try:
+            found = resolve_entry(self.structure, self.lot_id, text)
+        except EntryError as exc:
+            self.notice().say("error", f"{exc} — nothing recorded")
+            entry.keep_for_retyping()
+            return
+        holding = self.holding(found.unit)
+        if not holding:
+            subs = [s for s in (self.report.get("draw") or {}).get("substitutes", []) if s["unit"] == found.unit]
+            why = (f"it was replaced by unit {subs[-1]['substitute']} ({subs[-1]['reason']})" if subs
+                   else "it is not in the sample")
+            self.notice().say("error", f"unit {found.unit} ({found.address}): {why} — nothing recorded")
+            entry.keep_for_retyping()
+            return
+        self.staged = found
+        self.correcting = None
+        open_ = self.open_classes(found.unit)
+        note = ""
+        if left is not None and left.unit != found.unit and self.open_classes(left.unit):
+            note = f" (unit {left.unit} was left without a verdict)"
+        if not open_:
+            earlier = [self.current[(found.unit, c)] for c in holding]
+            said = "; ".join(f"{r['class']} {r['outcome']} (entry {r['entry']}, {r.get('by') or '?'} "
+                             f"{(r.get('at') or '')[11:16]})" for r in earlier)
+            self.notice().say("warning", f"duplicate scan: unit {found.unit} already recorded — {said}; "
+                                         f"c corrects, Esc leaves{note}")
+        else:
+            self.notice().say("info", f"unit {found.unit} on the bench{note}")
+        entry.value = ""
+        self.show_pad()
+        self.query_one("#pad", VerdictPad).focus()
+
+    def redirect_to_entry(self, character: str) -> None:
+        entry = self.query_one("#entry", ScanField)
+        entry.focus()
+        entry.value = character
+        entry.cursor_position = len(entry.value)
+
+    def leave_unit(self) -> None:
+        self.staged = None
+        self.correcting = None
+        self.show_pad()
+        self.notice().clear()
+        self.query_one("#entry", ScanField).focus()
+
+    # --- recording ------------------------------------------------------------------------------------
+
+    def give_verdict(self, outcome: str, defect_class: str | None) -> None:
+        s = self.staged
+        if s is None or self.pending:
+            return
+        who = self.app.current_inspector()
+        if who is None:
+            self.notice().say("error", "by: nobody is registered as inspector (lots screen, u); nothing recorded")
+            return
+        defect = self.query_one("#defect", Input).value.strip() or None
+        note = self.query_one("#note", Input).value.strip() or None
+        self.key_time = time.perf_counter()
+        self.pending = True
+        self.show_pad()
+        if self.correcting:
+            holding = self.holding(s.unit)
+            targets = [defect_class] if defect_class else [c for c in holding if (s.unit, c) in self.current]
+            self._correct(s.for_workflow, outcome, targets, self.correcting, who, defect, note)
+        else:
+            open_ = self.open_classes(s.unit)
+            if defect_class is not None:
+                classes = [defect_class]
+            elif open_ == self.holding(s.unit):
+                classes = [None]  # one pass for every class holding the unit
+            else:
+                classes = open_
+            self._record(s.for_workflow, outcome, classes, who, defect, note)
+
+    def _rows(self, outcome) -> list[dict]:
+        with self.app.services.store.reading() as r:
+            rows = []
+            for entry in outcome.entries:
+                res = r.result(entry)
+                rows.append({"entry": res.id, "unit": res.unit, "class": res.defect_class, "outcome": res.outcome,
+                             "defect": res.defect, "note": res.note, "by": res.by, "at": res.recorded_at,
+                             "corrects": res.corrects, "reason": res.reason, "current": True})
+        return rows
+
+    @work(thread=True, exclusive=True, group="record")
+    def _record(self, unit: Any, outcome: str, classes: list, who: str, defect, note) -> None:
+        from inspector.workflow import WorkflowError
+
+        last = None
+        rows: list[dict] = []
+        try:
+            with self.app.write_lock:
+                for cls in classes:
+                    last = self.workflow.record(self.lot_id, unit, outcome=outcome, by=who, defect_class=cls,
+                                                defect=defect, note=note)
+                    rows.extend(self._rows(last))
+        except WorkflowError as exc:
+            if last is not None:  # an earlier class was saved: show it, then the refusal
+                self.post_message(ResultRecorded(last, rows))
+            self.post_message(RecordRefused(one_line(exc)))
+        except Exception as exc:  # noqa: BLE001 - a store failure: persistent, nothing lost on screen
+            if last is not None:
+                self.post_message(ResultRecorded(last, rows))
+            self.post_message(RecordRefused(one_line(exc), store_failure=True))
+        else:
+            self.post_message(ResultRecorded(last, rows))
+
+    @work(thread=True, exclusive=True, group="record")
+    def _correct(self, unit: Any, outcome: str, classes: list, reason: str, who: str, defect, note) -> None:
+        from inspector.workflow import WorkflowError
+
+        try:
+            with self.app.write_lock:
+                last = None
+                rows: list[dict] = []
+                for cls in classes:
+                    last = self.workflow.correct(self.lot_id, unit, outcome=outcome, reason=reason, by=who,
+                                                 defect_class=cls, defect=defect, note=note)
+                    rows.extend(self._rows(last))
+        except WorkflowError as exc:
+            self.post_message(RecordRefused(one_line(exc)))
+        except Exception as exc:  # noqa: BLE001
+            self.post_message(RecordRefused(one_line(exc), store_failure=True))
+        else:
+            self.post_message(ResultRecorded(last, rows, corrected=1))
+
+    def on_result_recorded(self, message: ResultRecorded) -> None:
+        out = message.outcome
+        self.pending = False
+        was_correction = bool(message.corrected)
+        for row in message.rows:
+            if row.get("corrects"):
+                old = next((r for r in self.current.values() if r["entry"] == row["corrects"]), None)
+                if old is not None:
+                    self.mark_superseded(old["entry"], row["entry"], old["outcome"])
+            self.current[(row["unit"], row["class"])] = row
+            self.add_result_row(row)
+        table = self.query_one("#recent", DataTable)
+        if table.row_count:
+            table.move_cursor(row=table.row_count - 1, animate=False)
+        for cls, t in out.tallies.items():
+            self.tallies[cls] = t.to_dict()
+            self.samples[cls] = set(t.sample_units)
+        self.query_one(Tally).show_tallies(self.tallies)
+        entries = ", ".join(str(r["entry"]) for r in message.rows)
+        what = "correction" if was_correction else out.outcome
+        classes = ", ".join(sorted({r["class"] for r in message.rows}))
+        text = f"saved: unit {out.unit} {what} in {classes} (entry {entries})"
+        if out.note:
+            text += f" — {out.note}"
+        self.notice().say("saved", text)
+        for name in ("defect", "note"):
+            self.query_one(f"#{name}", Input).value = ""
+        if self.report is not None:
+            self.report["state"] = out.state
+        if out.decision is not None:
+            self.report["decision"] = out.decision["decision"]
+            self.report["decision_detail"] = {"curtailed": out.decision["curtailed"],
+                                              "why": out.decision["evidence"].get("why", "")}
+            self.bell()
+        self.show_state(self.report)
+        self.update_top_bar()
+        self.correcting = None
+        unit_open = self.staged is not None and self.open_classes(self.staged.unit)
+        if not unit_open or was_correction:
+            self.staged = None
+            self.query_one("#entry", ScanField).focus()
+        self.show_pad()
+        self.call_after_refresh(self._shown)
+
+    def _shown(self) -> None:
+        if self.key_time is not None:
+            self.last_latency = time.perf_counter() - self.key_time
+            self.key_time = None
+
+    def on_record_refused(self, message: RecordRefused) -> None:
+        self.pending = False
+        self.correcting = None
+        prefix = "NOT SAVED — store error: " if message.store_failure else "not recorded: "
+        self.notice().say("error", prefix + message.error)
+        self.show_pad()
+        if message.store_failure and self.staged is not None:
+            # Keep what was typed: put the unit back in the field as it was entered.
+            entry = self.query_one("#entry", ScanField)
+            entry.value = self.staged.typed
+            entry.keep_for_retyping()
+
+    # --- other keys -------------------------------------------------------------------------------------
+
+    def start_correction(self) -> None:
+        s = self.staged
+        if s is None:
+            return
+        from inspector.tui.screens.prompts import ReasonPrompt
+
+        earlier = [self.current[(s.unit, c)] for c in self.holding(s.unit) if (s.unit, c) in self.current]
+        detail = "; ".join(f"{r['class']}: {r['outcome']} (entry {r['entry']})" for r in earlier)
+
+        def answered(reason: str | None) -> None:
+            if reason:
+                self.correcting = reason
+                self.show_pad()
+                self.notice().say("info", f"correcting unit {s.unit}: press the new verdict (p, 1, 2, 3)")
+            self.query_one("#pad", VerdictPad).focus()
+
+        self.app.push_screen(ReasonPrompt(
+            f"correct unit {s.unit}: why?", detail=f"recorded now: {detail}. The original entry stays in the "
+            "record; the correction points at it.", placeholder="reason for the correction"), answered)
+
+    def action_next_inspector(self) -> None:
+        names = self.app.people("inspector")
+        if not names:
+            self.notice().say("warning", "no inspector registered (lots screen, u)")
+            return
+        now = self.app.current_inspector()
+        self.app.bench_person = names[(names.index(now) + 1) % len(names)] if now in names else names[0]
+        self.update_top_bar()
+        self.notice().say("info", f"results are now entered by {self.app.bench_person}")
+
+    def action_decide(self) -> None:
+        self._decide()
+
+    @work(thread=True, exclusive=True, group="decide")
+    def _decide(self) -> None:
+        try:
+            with self.app.write_lock:
+                result = self.workflow.decide(self.lot_id, by=self.app.current_inspector())
+        except Exception as exc:  # noqa: BLE001
+            self.post_message(RecordRefused(one_line(exc)))
+        else:
+            self.app.call_from_thread(self._decided, result)
+
+    def _decided(self, result: dict) -> None:
+        self.notice().say("saved", f"saved: decision {verdict_words(result['decision'])} (entry {result['entry']}); "
+                                   "F5 shows it")
+        self.reload()
