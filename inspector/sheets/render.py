@@ -58,6 +58,7 @@ __all__ = [
     "render_bench",
     "render_release",
     "unit_barcode",
+    "unit_qr",
 ]
 
 ADVISORY_TEXT = (
@@ -154,30 +155,66 @@ def unit_barcode(value: str, *, bar_width: float, height: float):
                    rquiet=10 * bar_width)
 
 
+def unit_qr(value: str):
+    """The QR symbol carrying ``value``, for a code too long for Code 128 in
+    the space given (a long or non-ASCII lot ID). Same text, same format."""
+    from reportlab.graphics.barcode.qr import QrCodeWidget
+
+    return QrCodeWidget(value, barLevel="M")
+
+
+#: Narrowest Code 128 bar the sheets print; handheld scanners read 0.15 mm
+#: at close range. A code that would need narrower bars becomes a QR symbol.
+MIN_BAR = 0.15 * mm
+
+
 class _UnitCode(Flowable):
-    """A unit's code: the bars, and the same text beneath for typing by hand."""
+    """A unit's code: the symbol, and the same text beneath for typing by hand.
+
+    Code 128 at the form's bar width, narrower (down to 0.15 mm) when the
+    space is short, and a QR symbol of the same text when even that does
+    not fit. ``kind`` says which."""
 
     TEXT = 6.5
 
     def __init__(self, value: str, *, bar_width: float, height: float, max_width: float | None = None):
         super().__init__()
         self.value = value
+        self.kind = "code128"
         symbol = unit_barcode(value, bar_width=bar_width, height=height)
-        self.symbol = symbol
-        self.width = width = symbol.width
+        width = symbol.width
         if max_width is not None and width > max_width:
-            # Narrower bars before spilling over the column; scanners read
-            # 0.15 mm bars at close range, so never go below that.
-            narrower = max(0.15 * mm, bar_width * max_width / width)
-            self.symbol = symbol = unit_barcode(value, bar_width=narrower, height=height)
-            self.width = symbol.width
-        self.height = height + self.TEXT + 1.5
+            narrower = bar_width * max_width / width
+            if narrower >= MIN_BAR:
+                symbol = unit_barcode(value, bar_width=narrower, height=height)
+                width = symbol.width
+            else:
+                self.kind = "qr"
+                symbol = unit_qr(value)
+                width = min(max(height + 5 * mm, 12 * mm), max_width)
+        self.symbol = symbol
+        self.code_height = width if self.kind == "qr" else height
+        text_width = string_width(value, self.TEXT, MONO)
+        self.width = max(width, min(text_width, max_width or text_width))
+        self.symbol_width = width
+        self.height = self.code_height + self.TEXT + 1.5
 
     def wrap(self, aw, ah):
         return self.width, self.height
 
     def draw(self):
-        draw_bars(self.canv, self.symbol, 0, self.TEXT + 1.5)
+        x = (self.width - self.symbol_width) / 2
+        if self.kind == "qr":
+            from reportlab.graphics import renderPDF
+            from reportlab.graphics.shapes import Drawing
+
+            x0, y0, x1, y1 = self.symbol.getBounds()
+            size = self.symbol_width
+            d = Drawing(size, size, transform=[size / (x1 - x0), 0, 0, size / (y1 - y0), 0, 0])
+            d.add(self.symbol)
+            renderPDF.draw(d, self.canv, x, self.TEXT + 1.5)
+        else:
+            draw_bars(self.canv, self.symbol, x, self.TEXT + 1.5)
         self.canv.setFont(MONO, self.TEXT)
         self.canv.drawCentredString(self.width / 2, 0.5, self.value)
 
@@ -443,6 +480,9 @@ class _Builder:
             cache[key] = {c.field: self.W * c.width / total for c in section.columns}
         return cache[key]
 
+    def _fields(self, section: Section) -> tuple[str, ...]:
+        return tuple(c.field for c in section.columns)
+
     def col_width(self, section: Section, field: str) -> float:
         total = sum(c.width for c in section.columns)
         return next(self.W * c.width / total for c in section.columns if c.field == field)
@@ -581,7 +621,11 @@ class _Builder:
             elif name == "container":
                 out.append(self.t(u.address.rsplit(" / ", 1)[0] if " / " in u.address else "", widths[name]))
             elif name == "position":
-                out.append(self.t(u.position, widths[name]))
+                fields = self._fields(section)
+                text = u.position
+                if u.serial and "serial" not in fields:
+                    text += f" · serial {u.serial}"  # serialised goods: the serial is what is read
+                out.append(self.t(text, widths[name]))
             elif name == "address" and u.replaces is None and u.times == 1:
                 out.append(self.t(u.address, widths[name]))
             elif name == "address":

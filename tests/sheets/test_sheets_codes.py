@@ -106,8 +106,26 @@ def test_symbols_are_made_for_each_unit_row_from_its_own_number(data, monkeypatc
     assert made == [unit_code(data.lot.lot_id, u.unit) for u in data.units]
 
 
-def test_a_lot_id_with_accents_still_prints_a_readable_symbol():
-    data = demo_sheet_data(lot_id="Łódź-7 ö", found={"major": 1})
-    pdf, _ = render_bytes("labels", data)
-    decoded = [decode128(w) for page in symbols_in(pdf) for w in page]
-    assert [parse_unit_code(c).lot_id for c in decoded] == ["Łódź-7 ö"] * len(data.units)
+@pytest.mark.parametrize("lot_id", ["Łódź-7 ö", "Łódź/山田-1"])
+@pytest.mark.parametrize("sheet", ["pick", "labels"])
+def test_a_long_or_accented_lot_id_still_prints_one_readable_symbol_per_unit(lot_id, sheet, monkeypatch):
+    # Escaped, such an ID may be too long for Code 128 in the space given;
+    # the sheet then prints a QR symbol of the same text.
+    qr = []
+    original = render.unit_qr
+
+    def spy(value):
+        qr.append(value)
+        return original(value)
+
+    monkeypatch.setattr(render, "unit_qr", spy)
+    data = demo_sheet_data(lot_id=lot_id, found={"major": 1})
+    pdf, _ = render_bytes(sheet, data)
+    bars = [decode128(w) for page in symbols_in(pdf) for w in page]
+    wanted = [unit_code(lot_id, u.unit) for u in data.units]
+    assert sorted(bars + qr) == sorted(wanted)
+    assert len(bars) + len(qr) == len(wanted)
+    assert [parse_unit_code(c).lot_id for c in bars + qr] == [lot_id] * len(wanted)
+    text = " ".join(page_texts(pdf))
+    assert all(code in text for code in wanted)  # the typed form under each symbol
+
