@@ -55,6 +55,9 @@ def store(tmp_path_factory):
                         break
                 else:
                     wf.record(lot, u, outcome="pass", by="Zoë Ødegård")
+        first_fail = next(r for r in wf.show("HP-2611-07")["results"] if r["outcome"] == "fail")
+        wf.correct("HP-2611-07", first_fail["unit"], outcome="fail", defect="chipped rim, 2 mm chip at the seam",
+                   reason="measured under the bench lamp", by="Zoë Ødegård")
         wf.decide("HP-2611-07")
         wf.release("HP-2611-07", by="山田 花子", meaning="released by", secret=SECRET)
         record = wf.show("HP-2611-07")
@@ -194,3 +197,35 @@ def test_an_unknown_sheet_is_one_line(store, tmp_path, capsys):
     db, _ = store
     err = one_line_error(capsys, "--db", db, "sheet", "invoice", "HP-2611-07", "-o", tmp_path / "x.pdf")
     assert "invoice" in err
+
+
+def test_the_printed_draw_command_re_derives_the_drawn_units(store, capsys):
+    import shlex
+
+    from inspector.sheets.build import sheet_model_for_lot
+
+    db, record = store
+    with build_services(str(db), environ={}) as s:
+        data = sheet_model_for_lot(s.workflow, "HP-2611-07")
+    argv = shlex.split(data.draw.command)
+    assert argv[:2] == ["inspector", "draw"]
+    code, stdout, err = run(capsys, *argv[1:], "--json")
+    assert code == 0, err
+    assert json.loads(stdout)["units"] == record["draw"]["units"]
+
+
+def test_corrections_come_from_the_record_with_was_now_and_reason(store, tmp_path, capsys):
+    from inspector.sheets.build import sheet_model_for_lot
+
+    db, record = store
+    with build_services(str(db), environ={}) as s:
+        data = sheet_model_for_lot(s.workflow, "HP-2611-07")
+    (k,) = data.corrections
+    assert (k.was, k.now) == ("fail (chipped rim)", "fail (chipped rim, 2 mm chip at the seam)")
+    assert k.reason == "measured under the bench lamp" and k.by == "Zoë Ødegård"
+    out = tmp_path / "release.pdf"
+    assert run(capsys, "--db", db, "sheet", "release", "HP-2611-07", "-o", out)[0] == 0
+    text = normal(" ".join(page_texts(out.read_bytes())))
+    assert "measured under the bench lamp" in text.split("Corrections", 1)[1]
+    # the model holds the effective results only: the corrected entry is not listed twice
+    assert sum(1 for r in data.results if r.unit == k.unit) == 1
