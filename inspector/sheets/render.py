@@ -205,18 +205,44 @@ class _UnitCode(Flowable):
     def draw(self):
         x = (self.width - self.symbol_width) / 2
         if self.kind == "qr":
-            from reportlab.graphics import renderPDF
-            from reportlab.graphics.shapes import Drawing
-
-            x0, y0, x1, y1 = self.symbol.getBounds()
-            size = self.symbol_width
-            d = Drawing(size, size, transform=[size / (x1 - x0), 0, 0, size / (y1 - y0), 0, 0])
-            d.add(self.symbol)
-            renderPDF.draw(d, self.canv, x, self.TEXT + 1.5)
+            draw_qr(self.canv, self.symbol, x, self.TEXT + 1.5, self.symbol_width)
         else:
             draw_bars(self.canv, self.symbol, x, self.TEXT + 1.5)
         self.canv.setFont(MONO, self.TEXT)
         self.canv.drawCentredString(self.width / 2, 0.5, self.value)
+
+
+def draw_qr(canv, widget, x: float, y: float, size: float) -> None:
+    """Draw a reportlab QR widget's modules as one filled path, ``size``
+    points square including the 4-module quiet zone.
+
+    reportlab encodes (``widget.qr.make()``: version, error correction,
+    mask); the widget's own drawing makes one shape per run of modules and
+    encodes a second time, which is what made long pick lists slow."""
+    qr = widget.qr
+    if getattr(qr, "modules", None) is None:
+        qr.make()
+    count = qr.getModuleCount()
+    border = 4
+    ops = []
+    for r, row in enumerate(qr.modules):
+        c = 0
+        while c < count:
+            if row[c]:
+                start = c
+                while c < count and row[c]:
+                    c += 1
+                # rows run top down; PDF y runs bottom up
+                ops.append(f"{start + border} {count - 1 - r + border} {c - start} 1 re")
+            else:
+                c += 1
+    canv.saveState()
+    canv.setFillColor(colors.black)
+    canv.translate(x, y)
+    scale = size / (count + 2 * border)
+    canv.scale(scale, scale)
+    canv.addLiteral(" ".join(ops) + " f")
+    canv.restoreState()
 
 
 def draw_bars(canv, symbol, x: float, y: float) -> None:
