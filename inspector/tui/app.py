@@ -9,6 +9,7 @@ who is at the bench and which units were marked as pulled.
 from __future__ import annotations
 
 import asyncio
+import os
 import threading
 
 from textual.app import App
@@ -64,9 +65,11 @@ class InspectorApp(App):
     ENABLE_COMMAND_PALETTE = False
     BINDINGS = [Binding("ctrl+q", "quit", "quit", priority=True)]
 
-    def __init__(self, services, *, bench_person: str | None = None) -> None:
+    def __init__(self, services, *, bench_person: str | None = None, output_folder: str | None = None) -> None:
         super().__init__()
         self.services = services
+        # Where the print screen proposes to write sheets (the working folder by default).
+        self.output_folder = output_folder if output_folder is not None else os.getcwd()
         self.workflow = services.workflow
         self.bench_person = bench_person
         self.pulled: dict[str, set[int]] = {}

@@ -18,8 +18,19 @@ from inspector.tui.app import state_words
 LOT_SCREENS = ("plan", "draw", "bench", "decision", "print", "history")
 
 
+def fixed_height(widget) -> bool:
+    """True when the widget's height does not follow its content, so an
+    update needs no new layout of the screen (a layout pass costs tens of
+    milliseconds on a busy screen; the bench cannot afford it per entry)."""
+    height = widget.styles.height
+    return height is not None and not height.is_auto
+
+
 class TopBar(Static):
     """One line: where you are, which lot, its state."""
+
+    def update(self, content="", *, layout: bool = False) -> None:
+        super().update(content, layout=layout)
 
 
 class Notice(Static):
@@ -35,7 +46,7 @@ class Notice(Static):
         for k in ("error", "warning", "saved", "info"):
             self.set_class(k == kind, f"-{k}")
         marks = {"error": "✘ ", "warning": "⚠ ", "saved": "✔ ", "info": ""}
-        self.update(escape(marks.get(kind, "") + text) if text else "")
+        self.update(escape(marks.get(kind, "") + text) if text else "", layout=not fixed_height(self))
         self.kind = kind if text else ""
 
     def clear(self) -> None:

@@ -30,10 +30,11 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.message import Message
-from textual.widgets import DataTable, Input, Label, Static
+from textual.widgets import Input, Label, Static
 
 from inspector.tui.screens.base import LotScreen, Notice, TopBar, one_line
 from inspector.tui.widgets import KeyStrip, ScanField, Tally, verdict_words
+from inspector.tui.widgets.recent import EntryRow, RecentEntries
 
 FAIL_KEYS = {"1": "critical", "2": "major", "3": "minor"}
 
@@ -131,7 +132,7 @@ class BenchScreen(LotScreen):
         self.staged = None  # lookup.Resolved
         self.correcting: str | None = None  # the reason, while a correction waits for its verdict
         self.pending = False
-        self.row_of_entry: dict[int, str] = {}
+        self.outcome_of: dict[int, str] = {}
         # Timing of the last entry, from its key to the refresh that showed
         # it saved (read by benchmarks/bench_tui.py).
         self.key_time: float | None = None
@@ -150,16 +151,10 @@ class BenchScreen(LotScreen):
             yield Input("", placeholder="optional", id="note")
         yield Tally(id="tally")
         yield Static("", id="early")
-        table = DataTable(id="recent", cursor_type="row", zebra_stripes=True)
-        yield table
+        yield RecentEntries(id="recent")
         yield KeyStrip()
 
     def on_mount(self) -> None:
-        table = self.query_one("#recent", DataTable)
-        for label, key, width in (("entry", "entry", 5), ("unit", "unit", 6), ("class", "class", 8),
-                                  ("result", "result", 11), ("defect · note", "text", 18), ("by", "by", 9),
-                                  ("at", "at", 5)):
-            table.add_column(label, key=key, width=width)
         self.query_one("#early", Static).display = False
         if self.app.bench_person is None:
             self.app.bench_person = self.app.current_inspector()
@@ -198,14 +193,10 @@ class BenchScreen(LotScreen):
             units.update(u for (u, c) in current if c == cls)
             samples[cls] = units
         self.samples = samples
-        table = self.query_one("#recent", DataTable)
-        table.clear()
-        self.row_of_entry.clear()
-        superseded = {r["corrects"]: r["entry"] for r in report.get("results", []) if r.get("corrects")}
-        for r in report.get("results", []):
-            self.add_result_row(r, superseded_by=superseded.get(r["entry"]))
-        if table.row_count:
-            table.move_cursor(row=table.row_count - 1, animate=False)
+        results = report.get("results", [])
+        self.outcome_of = {r["entry"]: r["outcome"] for r in results}
+        superseded = {r["corrects"]: r["entry"] for r in results if r.get("corrects")}
+        self.query_one(RecentEntries).set_rows([self.entry_row(r, superseded.get(r["entry"])) for r in results])
         self.query_one(Tally).show_tallies(self.tallies)
         self.show_state(report)
         self.update_top_bar()
@@ -238,24 +229,13 @@ class BenchScreen(LotScreen):
         else:
             early.display = False
 
-    def add_result_row(self, r: dict, *, superseded_by: int | None = None) -> None:
-        table = self.query_one("#recent", DataTable)
+    def entry_row(self, r: dict, superseded_by: int | None = None) -> EntryRow:
         text = " · ".join(t for t in (r.get("defect"), r.get("note")) if t)
         if r.get("corrects"):
-            text = f"corrects {r['corrects']}: {r.get('reason') or ''}" + (f" · {text}" if text else "")
-        result = r["outcome"]
-        if superseded_by:
-            result += f" ✎→{superseded_by}"
-        at = (r.get("at") or "")[11:16]
-        key = str(r["entry"])
-        table.add_row(str(r["entry"]), str(r["unit"]), r["class"], result, text, r.get("by") or "", at, key=key)
-        self.row_of_entry[r["entry"]] = key
-
-    def mark_superseded(self, entry: int, by_entry: int, outcome: str) -> None:
-        table = self.query_one("#recent", DataTable)
-        key = self.row_of_entry.get(entry)
-        if key is not None:
-            table.update_cell(key, "result", f"{outcome} ✎→{by_entry}")
+            was = self.outcome_of.get(r["corrects"], "?")
+            text = f"corrects {r['corrects']} (was {was}): {r.get('reason') or ''}" + (f" · {text}" if text else "")
+        return EntryRow(entry=r["entry"], unit=r["unit"], defect_class=r["class"], outcome=r["outcome"], text=text,
+                        by=r.get("by") or "", at=(r.get("at") or "")[11:16], superseded_by=superseded_by)
 
     # --- the unit on the bench ------------------------------------------------------------------------
 
@@ -269,7 +249,7 @@ class BenchScreen(LotScreen):
         pad = self.query_one("#pad", VerdictPad)
         s = self.staged
         if s is None:
-            pad.update("no unit on the bench")
+            pad.update("no unit on the bench", layout=False)
             pad.set_class(False, "-staged")
             self.refresh_bindings()
             return
@@ -292,7 +272,7 @@ class BenchScreen(LotScreen):
             lines.append("p pass · " + " · ".join(f"{k} fail {c}" for k, c in FAIL_KEYS.items() if c in open_))
         else:
             lines.append("every class recorded: c corrects, Esc leaves")
-        pad.update(escape("\n".join(lines)))
+        pad.update(escape("\n".join(lines)), layout=False)
         self.refresh_bindings()
 
     def pad_allows(self, action: str, parameters: tuple) -> bool | None:
@@ -472,16 +452,13 @@ class BenchScreen(LotScreen):
         out = message.outcome
         self.pending = False
         was_correction = bool(message.corrected)
+        recent = self.query_one(RecentEntries)
         for row in message.rows:
             if row.get("corrects"):
-                old = next((r for r in self.current.values() if r["entry"] == row["corrects"]), None)
-                if old is not None:
-                    self.mark_superseded(old["entry"], row["entry"], old["outcome"])
+                recent.mark_superseded(row["corrects"], row["entry"])
             self.current[(row["unit"], row["class"])] = row
-            self.add_result_row(row)
-        table = self.query_one("#recent", DataTable)
-        if table.row_count:
-            table.move_cursor(row=table.row_count - 1, animate=False)
+            recent.add(self.entry_row(row))
+            self.outcome_of[row["entry"]] = row["outcome"]
         for cls, t in out.tallies.items():
             self.tallies[cls] = t.to_dict()
             self.samples[cls] = set(t.sample_units)

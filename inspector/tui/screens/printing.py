@@ -6,7 +6,6 @@ lot, then each chosen sheet is rendered to ``<folder>/<lot>-<sheet>.pdf``."""
 
 from __future__ import annotations
 
-import os
 import re
 from pathlib import Path
 
@@ -67,7 +66,7 @@ class PrintScreen(LotScreen):
         yield OptionList(*[Option(f"[ ] {words}", id=key) for key, words in SHEETS], id="sheets")
         with Horizontal(id="folder-row"):
             yield Label("output folder")
-            yield Input(os.getcwd(), id="folder")
+            yield Input(self.app.output_folder, id="folder")
         yield Static("", id="paths")
         yield Static("", id="written")
         yield Notice("", id="notice", classes="notice")

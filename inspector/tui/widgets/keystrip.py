@@ -60,4 +60,10 @@ class KeyStrip(Static):
             key_style = "bold reverse" if enabled else "dim"
             text.append(f" {key} ", style=key_style)
             text.append(f" {description}", style="" if enabled else "dim")
-        self.update(text)
+        if text.plain == getattr(self, "_shown_plain", None) and str(text.spans) == getattr(self, "_shown_spans", None):
+            return  # unchanged: skip the redraw
+        width = max(self.size.width - 2, 20)
+        lines = len(text.wrap(self.app.console, width))
+        # A new layout only when the strip's height changes.
+        self.update(text, layout=lines != getattr(self, "_shown_lines", None))
+        self._shown_plain, self._shown_spans, self._shown_lines = text.plain, str(text.spans), lines

@@ -49,4 +49,5 @@ class Tally(Static):
                 text.append("\n")
         if not tallies:
             text.append("no plan yet", style=head)
-        self.update(text)
+        height = self.styles.height
+        self.update(text, layout=height is None or height.is_auto)
