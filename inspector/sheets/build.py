@@ -81,7 +81,8 @@ def plan_figures(
     With ``aql``/``rql`` (percent, exact): Pa at D1 = floor(N AQL / 100) and
     at D2 = ceil(N RQL / 100), as the plan design uses them. Without them (a
     plan typed as n and c): the plan's own quality levels, the largest D
-    with Pa >= 0.95 and the smallest D with Pa <= 0.10. AOQL from
+    with Pa >= 0.95 and the smallest D with Pa <= 0.10. With an AQL only (a
+    code-letter table plan): the plan's own RQL beside it. AOQL from
     ``plans.aoql_lot``. All from ``inspector.stats``.
     """
     from inspector.stats import plans
@@ -98,6 +99,12 @@ def plan_figures(
     else:
         d1 = None if aql_pct is None else defectives_at(N, aql_pct, round_up=False)
         d2 = None if rql_pct is None else defectives_at(N, rql_pct, round_up=True)
+    rql_own = not own and rql_pct is None
+    if rql_own:
+        # A table plan states only its AQL: show where this plan's Pa falls
+        # to 0.10 at this lot size, as its own RQL.
+        d2 = plans.rql_lot(N, n, c, Fraction(10, 100))
+        rql_pct = None if d2 is None else Fraction(100 * d2, N)
     pa1 = None if d1 is None else float(plans.pa_lot(N, n, c, int(d1)))
     pa2 = None if d2 is None else float(plans.pa_lot(N, n, c, int(d2)))
     if n < N:
@@ -123,6 +130,7 @@ def plan_figures(
         producer_risk=_exact(producer_risk),
         consumer_risk=_exact(consumer_risk),
         own_levels=own,
+        rql_own=rql_own and d2 is not None,
     )
 
 
@@ -216,12 +224,16 @@ def _source_text(plan: Mapping[str, Any]) -> tuple[str, str]:
             f"at consumer's risk {beta}, exact at this lot size"
         )
     if chosen == "table":
-        what = details.get("source") or details.get("table") or "code-letter table"
-        bits = [str(what)]
-        for key, label in (("code_letter", "code letter"), ("level", "level"), ("severity", "")):
-            value = details.get(key) or plan.get(key)
-            if value:
-                bits.append(f"{label} {value}".strip())
+        bits = ["code-letter table (MIL-STD-105E)"]
+        letter = details.get("code_letter")
+        if letter:
+            bits.append(f"code letter {letter}")
+        if plan.get("level"):
+            bits.append(f"level {plan['level']}")
+        if plan.get("severity"):
+            bits.append(f"{plan['severity']} inspection")
+        if plan.get("aql") is not None:
+            bits.append(f"AQL {plan['aql']} %")
         return "table", ", ".join(bits)
     return "typed", "typed as n and c"
 
@@ -357,7 +369,9 @@ def sheet_model_from_record(record: Mapping[str, Any], *, pick_list: Mapping[str
             nonconforming=int(t["nonconforming"]),
             acceptance=int(t["accept"]),
             rejection=int(t["reject"]),
-            result=t.get("verdict") or "open",
+            # Before the draw the workflow's tally has no open units and reads
+            # as complete; nothing has been inspected, so the sheet says open.
+            result=(t.get("verdict") or "open") if d is not None else "open",
         )
         for cls in CLASS_ORDER
         if (t := (record.get("classes") or {}).get(cls)) is not None

@@ -159,7 +159,7 @@ def oc_chart(plan: SheetPlan, estimate: SheetEstimate | None, *, width: float, h
         marker(float(plan.aql_percent), plan.pa_at_aql, "AQL", [2, 2], "left")
         legend.append((f"- - {name} {fmt.percent(plan.aql_percent)}: Pa {fmt.prob(plan.pa_at_aql)}", False))
     if plan.rql_percent is not None:
-        name = "RQL (where Pa = 0.10)" if plan.own_levels else "RQL"
+        name = "RQL (where Pa = 0.10)" if plan.own_levels or plan.rql_own else "RQL"
         marker(float(plan.rql_percent), plan.pa_at_rql, "RQL", [4, 2], "right")
         legend.append((f"- - {name} {fmt.percent(plan.rql_percent)}: Pa {fmt.prob(plan.pa_at_rql)}", False))
     if estimate is not None:

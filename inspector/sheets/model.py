@@ -159,7 +159,9 @@ class SheetPlan:
     ``source`` is ``design`` (designed from AQL and RQL), ``table`` (a
     code-letter table) or ``typed`` (n and c typed in). For a typed plan
     ``aql_percent``/``rql_percent`` are the plan's own quality levels, where
-    Pa is 0.95 and 0.10, and ``own_levels`` is true.
+    Pa is 0.95 and 0.10, and ``own_levels`` is true. A plan with an AQL but
+    no RQL (a code-letter table plan) gets the plan's own RQL, where Pa is
+    0.10, with ``rql_own`` true.
     ``aql_defectives``/``rql_defectives`` are those levels in units of this
     lot; ``aoql`` is a fraction of the lot, peaking at ``aoql_defectives``."""
 
@@ -181,6 +183,7 @@ class SheetPlan:
     producer_risk: Fraction | None = None
     consumer_risk: Fraction | None = None
     own_levels: bool = False
+    rql_own: bool = False
 
     def __post_init__(self):
         if self.defect_class not in DEFECT_CLASSES:

@@ -767,7 +767,7 @@ class _Builder:
             text = fmt.percent(pct)
             if units is not None:
                 text += f" ({fmt.units(units)})"
-            if plan.own_levels:
+            if plan.own_levels or (name == "rql" and plan.rql_own):
                 text += "*"
             return Paragraph(markup(text), self.st[style])
         if name == "pa_at_aql":
@@ -802,6 +802,8 @@ class _Builder:
                 "* Plan typed as n and c: AQL and RQL are the plan's own quality levels, "
                 "where its Pa is 0.95 and 0.10."
             )
+        if any(p.rql_own for p in self.data.plans) and "rql" in fields:
+            notes.append("* Table plan: the RQL shown is the plan's own, where its Pa falls to 0.10 at this lot size.")
         if notes:
             out += [Spacer(1, 2)] + [Paragraph(markup(n), self.st["small"]) for n in notes]
         return out

@@ -229,3 +229,23 @@ def test_corrections_come_from_the_record_with_was_now_and_reason(store, tmp_pat
     assert "measured under the bench lamp" in text.split("Corrections", 1)[1]
     # the model holds the effective results only: the corrected entry is not listed twice
     assert sum(1 for r in data.results if r.unit == k.unit) == 1
+
+
+def test_a_table_plan_shows_its_source_and_its_own_rql(tmp_path, capsys):
+    from inspector.sheets.build import sheet_model_for_lot
+    from inspector.stats import plans
+
+    db = tmp_path / "t.db"
+    with build_services(str(db), environ={}, clock=Clock()) as s:
+        s.workflow.register_lot(lot_id="HP-2611-10", supplier="Harrowgate Preserves",
+                                product="apricot jam 370 g jar", size=2000)
+        s.workflow.plan("HP-2611-10", aql="1.0", level="II")
+        data = sheet_model_for_lot(s.workflow, "HP-2611-10")
+    (p,) = data.plans
+    assert p.source == "table" and "code letter" in p.source_text and "level II" in p.source_text
+    assert p.rql_own and p.rql_defectives == plans.rql_lot(2000, p.sample_size, p.acceptance, 0.10)
+    assert [o.result for o in data.outcomes] == ["open"]  # nothing drawn, nothing decided
+    out = tmp_path / "release.pdf"
+    assert run(capsys, "--db", db, "sheet", "release", "HP-2611-10", "-o", out)[0] == 0
+    text = normal(" ".join(page_texts(out.read_bytes())))
+    assert "code letter" in text and "the RQL shown is the plan's own" in text
