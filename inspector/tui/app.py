@@ -76,6 +76,9 @@ class InspectorApp(App):
         # Every write holds this lock; quitting waits for it, so an entry
         # that was keyed is committed (or refused) before the app exits.
         self.write_lock = threading.Lock()
+        # Writes asked for on the UI thread and not yet finished (counted
+        # before their worker starts, so a quit right after a key waits).
+        self.pending_writes = 0
         self.register_theme(THEME)
         self.theme = THEME.name
 
@@ -95,7 +98,23 @@ class InspectorApp(App):
         names = self.people("inspector")
         return names[0] if names else None
 
+    def begin_write(self) -> None:
+        """Call on the UI thread before starting a worker that writes."""
+        self.pending_writes += 1
+
+    def end_write(self) -> None:
+        """Call from the writing worker when it is done (committed or refused)."""
+        self.call_from_thread(self._end_write) if threading.current_thread() is not threading.main_thread() \
+            else self._end_write()
+
+    def _end_write(self) -> None:
+        self.pending_writes -= 1
+
     async def action_quit(self) -> None:
+        # Never exit under a write: an entry keyed just before quitting is
+        # committed (or refused) first.
+        while self.pending_writes > 0:
+            await asyncio.sleep(0.01)
         await asyncio.to_thread(self.write_lock.acquire)
         self.write_lock.release()
         self.exit()

@@ -109,3 +109,20 @@ def screen_text(app) -> str:
     """What the terminal shows, as plain text lines."""
     strips = app.screen._compositor.render_strips()
     return "\n".join("".join(seg.text for seg in strip).rstrip() for strip in strips)
+
+
+_KEY_NAMES = {"-": "minus", ":": "colon", "/": "slash", " ": "space", ".": "full_stop", ",": "comma",
+              "=": "equals_sign", "_": "underscore"}
+
+
+async def burst(pilot, text: str, end: str | tuple[str, ...] | None = "enter") -> None:
+    """Send ``text`` and then ``end`` the way a keyboard-wedge scanner does:
+    every key at once, without waiting for the screen between keys."""
+    from textual import events
+
+    driver = pilot.app._driver
+    for ch in text:
+        driver.send_message(events.Key(_KEY_NAMES.get(ch, ch), ch))
+    for key in (end,) if isinstance(end, str) else (end or ()):
+        driver.send_message(events.Key(key, {"enter": "\r", "tab": "\t", "ctrl+j": "\n"}.get(key)))
+    await settle(pilot)

@@ -309,6 +309,10 @@ class BenchScreen(LotScreen):
         from inspector.tui.lookup import EntryError, resolve_entry
 
         entry = self.query_one("#entry", ScanField)
+        if not text.strip():
+            # An empty submit does nothing: a scanner that ends with CR LF
+            # sends a second submit key right after the first.
+            return
         if self.pending:
             self.notice().say("warning", "the last entry is still being saved; submit again in a moment")
             entry.keep_for_retyping()
@@ -325,7 +329,7 @@ class BenchScreen(LotScreen):
         try:
             found = resolve_entry(self.structure, self.lot_id, text)
         except EntryError as exc:
-            self.notice().say("error", f"{exc} — nothing recorded")
+            self.notice().say("error", f"nothing recorded — {exc}")
             entry.keep_for_retyping()
             return
         holding = self.holding(found.unit)
@@ -333,7 +337,7 @@ class BenchScreen(LotScreen):
             subs = [s for s in (self.report.get("draw") or {}).get("substitutes", []) if s["unit"] == found.unit]
             why = (f"it was replaced by unit {subs[-1]['substitute']} ({subs[-1]['reason']})" if subs
                    else "it is not in the sample")
-            self.notice().say("error", f"unit {found.unit} ({found.address}): {why} — nothing recorded")
+            self.notice().say("error", f"nothing recorded — unit {found.unit} ({found.address}): {why}")
             entry.keep_for_retyping()
             return
         self.staged = found
@@ -381,6 +385,7 @@ class BenchScreen(LotScreen):
         note = self.query_one("#note", Input).value.strip() or None
         self.key_time = time.perf_counter()
         self.pending = True
+        self.app.begin_write()
         self.show_pad()
         if self.correcting:
             holding = self.holding(s.unit)
@@ -419,24 +424,27 @@ class BenchScreen(LotScreen):
                                                 defect=defect, note=note)
                     rows.extend(self._rows(last))
         except WorkflowError as exc:
+            self.app.end_write()
             if last is not None:  # an earlier class was saved: show it, then the refusal
                 self.post_message(ResultRecorded(last, rows))
             self.post_message(RecordRefused(one_line(exc)))
         except Exception as exc:  # noqa: BLE001 - a store failure: persistent, nothing lost on screen
+            self.app.end_write()
             if last is not None:
                 self.post_message(ResultRecorded(last, rows))
             self.post_message(RecordRefused(one_line(exc), store_failure=True))
         else:
+            self.app.end_write()
             self.post_message(ResultRecorded(last, rows))
 
     @work(thread=True, exclusive=True, group="record")
     def _correct(self, unit: Any, outcome: str, classes: list, reason: str, who: str, defect, note) -> None:
         from inspector.workflow import WorkflowError
 
+        last = None
+        rows: list[dict] = []
         try:
             with self.app.write_lock:
-                last = None
-                rows: list[dict] = []
                 for cls in classes:
                     last = self.workflow.correct(self.lot_id, unit, outcome=outcome, reason=reason, by=who,
                                                  defect_class=cls, defect=defect, note=note)
@@ -445,7 +453,10 @@ class BenchScreen(LotScreen):
             self.post_message(RecordRefused(one_line(exc)))
         except Exception as exc:  # noqa: BLE001
             self.post_message(RecordRefused(one_line(exc), store_failure=True))
-        else:
+        finally:
+            self.app.end_write()
+        if last is not None and rows:
+            # Posted after any refusal of a later class, so "saved" is what stays on view.
             self.post_message(ResultRecorded(last, rows, corrected=1))
 
     def on_result_recorded(self, message: ResultRecorded) -> None:
@@ -478,7 +489,7 @@ class BenchScreen(LotScreen):
             self.report["decision"] = out.decision["decision"]
             self.report["decision_detail"] = {"curtailed": out.decision["curtailed"],
                                               "why": out.decision["evidence"].get("why", "")}
-            self.bell()
+            self.app.bell()
         self.show_state(self.report)
         self.update_top_bar()
         self.correcting = None
@@ -497,7 +508,7 @@ class BenchScreen(LotScreen):
     def on_record_refused(self, message: RecordRefused) -> None:
         self.pending = False
         self.correcting = None
-        prefix = "NOT SAVED — store error: " if message.store_failure else "not recorded: "
+        prefix = "NOT SAVED — store error: " if message.store_failure else "nothing recorded — "
         self.notice().say("error", prefix + message.error)
         self.show_pad()
         if message.store_failure and self.staged is not None:

@@ -19,8 +19,10 @@ class ReasonPrompt(ModalScreen[str | None]):
     """One line of text with a question above it; Enter answers."""
 
     CSS_PATH = "prompts.tcss"
+    # Enter reaches the field first (it submits); the binding is here so the
+    # key strip names it.
     BINDINGS = [
-        Binding("enter", "answer", "confirm", priority=True),
+        Binding("enter", "answer", "confirm"),
         Binding("escape", "cancel", "cancel"),
     ]
 
@@ -43,6 +45,10 @@ class ReasonPrompt(ModalScreen[str | None]):
 
     def on_mount(self) -> None:
         self.query_one("#answer", Input).focus()
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        self.action_answer()
 
     def action_answer(self) -> None:
         text = self.query_one("#answer", Input).value.strip()

@@ -14,9 +14,13 @@ from textual.widgets import Input
 class ScanField(Input):
     """An Input whose Enter, Tab and ctrl+j all post ``Input.Submitted``."""
 
+    # Not priority bindings on purpose: a priority binding acts as soon as
+    # the app receives the key, before the characters a scanner sent just
+    # ahead of it have reached the field, and would submit a half-read code.
+    # As plain bindings of the focused field they act in key order.
     BINDINGS = [
-        Binding("tab", "submit", "submit", show=False, priority=True),
-        Binding("ctrl+j", "submit", "submit", show=False, priority=True),
+        Binding("tab", "submit", "submit", show=False),
+        Binding("ctrl+j", "submit", "submit", show=False),
     ]
 
     def __init__(self, *, placeholder: str = "", id: str | None = None) -> None:
