@@ -39,25 +39,40 @@ def demo_people_missing(workflow) -> list[tuple[str, str, str]]:
     return [w for w in wanted if w[0] not in have]
 
 
-def load_demo(workflow, *, lot_id: str = DEMO_LOT) -> DemoLoaded:
-    """Register the demo people (when missing) and the demo lot, through the
-    workflow. The lot is left registered: planning, drawing and the bench
-    are the user's to walk."""
+def add_demo_people(workflow) -> tuple[str, ...]:
+    """Register the demo people that are missing, through the workflow."""
     added = []
     for name, role, secret in demo_people_missing(workflow):
         workflow.add_person(name=name, role=role, secret=secret)
         added.append(name)
-    workflow.register_lot(lot_id=lot_id, supplier=DEMO_SUPPLIER, product=DEMO_PRODUCT, size=DEMO_SIZE,
-                          structure=DEMO_STRUCTURE, reference=DEMO_REFERENCE, critical=True,
-                          notes="demo lot: an invented delivery to show the whole flow")
-    return DemoLoaded(lot_id=lot_id, people_added=tuple(added))
+    return tuple(added)
+
+
+def demo_lot_fields(lot_id: str = DEMO_LOT) -> dict:
+    """The demo lot as the registration form's fields (text, as typed)."""
+    return {"id": lot_id, "supplier": DEMO_SUPPLIER, "product": DEMO_PRODUCT, "size": str(DEMO_SIZE),
+            "structure": DEMO_STRUCTURE, "reference": DEMO_REFERENCE,
+            "notes": "demo lot: an invented delivery to show the whole flow", "critical": True}
+
+
+def load_demo(workflow, *, lot_id: str = DEMO_LOT) -> DemoLoaded:
+    """Register the demo people (when missing) and the demo lot, through the
+    workflow. The lot is left registered: planning, drawing and the bench
+    are the user's to walk. (The lots screen instead opens the registration
+    form filled in with :func:`demo_lot_fields`, so the user registers it.)"""
+    added = add_demo_people(workflow)
+    fields = demo_lot_fields(lot_id)
+    workflow.register_lot(lot_id=lot_id, supplier=fields["supplier"], product=fields["product"], size=DEMO_SIZE,
+                          structure=fields["structure"], reference=fields["reference"], critical=True,
+                          notes=fields["notes"])
+    return DemoLoaded(lot_id=lot_id, people_added=added)
 
 
 DEMO_OFFER = (
     "The store is empty.\n\n"
-    f"Press [b]d[/b] to load a demo lot: {DEMO_LOT}, {DEMO_PRODUCT} from {DEMO_SUPPLIER} (invented), "
-    "18 pallets × 4 layers × 9 cartons × 24 jars, flagged as food. It also registers two invented "
-    f"people: {DEMO_INSPECTOR} (inspector, secret {DEMO_INSPECTOR_SECRET}) and {DEMO_APPROVER} "
-    f"(approver, secret {DEMO_APPROVER_SECRET}).\n\n"
+    f"Press [b]d[/b] for a demo lot: {DEMO_LOT}, {DEMO_PRODUCT} from {DEMO_SUPPLIER} (invented), "
+    "18 pallets × 4 layers × 9 cartons × 24 jars, flagged as food. It registers two invented "
+    f"people, {DEMO_INSPECTOR} (inspector) and {DEMO_APPROVER} (approver, secret "
+    f"[b]{DEMO_APPROVER_SECRET}[/b]), then opens the new-lot form filled in: ctrl+s registers it.\n\n"
     "Press [b]n[/b] to register a lot of your own, [b]u[/b] to add people."
 )

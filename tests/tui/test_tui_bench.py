@@ -276,3 +276,32 @@ def test_quitting_right_after_an_entry_loses_nothing(seeded_services):
 
     run(go())
     assert any(r["unit"] == unit for r in results_of(wf))
+
+
+def test_a_scan_that_begins_with_a_verdict_key_goes_to_the_entry(seeded_services):
+    """A unit waits for its verdict and the next unit is scanned: the scan's
+    first character is a verdict key ("1" = fail critical), but it arrives in
+    a burst, so it is read as the start of the scan and records nothing."""
+    wf = seeded_services.workflow
+    report = wf.show(LOT)
+    waiting = report["classes"]["critical"]["open_units"][0]
+    nxt = next(u for u in report["classes"]["major"]["open_units"]
+               if str(u)[0] in "123" and u != waiting)
+    before = len(report["results"])
+
+    async def go():
+        app = make_app(seeded_services)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await open_bench(pilot)
+            await scan(pilot, str(waiting))
+            assert f"▶ unit {waiting}" in screen_text(app)
+            await scan(pilot, str(nxt))  # the pad has the focus: the burst lands there
+            await pilot.pause(0.1)
+            await settle(pilot)
+            shown = " ".join(screen_text(app).split())
+            assert f"▶ unit {nxt}" in shown
+            assert f"unit {waiting} was left without a verdict" in shown
+        assert len(results_of(wf)) == before
+        assert wf.show(LOT)["state"] == "inspecting"
+
+    run(go())

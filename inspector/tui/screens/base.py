@@ -89,10 +89,11 @@ class LotScreen(Screen):
         Binding("escape", "back", "lots"),
     ]
 
-    def __init__(self, lot_id: str) -> None:
+    def __init__(self, lot_id: str, *, notice: tuple[str, str] | None = None) -> None:
         super().__init__()
         self.lot_id = lot_id
         self.report: dict | None = None
+        self._first_notice = notice  # (kind, text) to show once the screen is up
 
     @property
     def workflow(self):
@@ -114,6 +115,9 @@ class LotScreen(Screen):
     # --- loading ------------------------------------------------------------------------------------
 
     def reload(self) -> None:
+        if self._first_notice is not None:
+            self.notice().say(*self._first_notice)
+            self._first_notice = None
         self._load()
 
     @work(thread=True, exclusive=True, group="load")

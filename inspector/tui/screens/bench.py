@@ -64,12 +64,38 @@ class BenchReady(Message):
         self.structure = structure
 
 
+# How long a letter or digit key on the pad waits before it acts. A scanner
+# types a whole code in a burst, a few milliseconds per character; if any
+# other key follows within this time, the keys were the start of a scan
+# (of the next unit) and go to the entry field instead of recording a
+# verdict. Space and Escape never start a scan, so they act at once.
+HOLD_SECONDS = 0.03
+
+# key -> (action, parameters), for the keys the pad answers.
+PAD_KEYS = {
+    "space": ("verdict", ("pass",)),
+    "p": ("verdict", ("pass",)),
+    "1": ("verdict", ("fail", "critical")),
+    "2": ("verdict", ("fail", "major")),
+    "3": ("verdict", ("fail", "minor")),
+    "d": ("extra", ("defect",)),
+    "n": ("extra", ("note",)),
+    "c": ("correct", ()),
+}
+SUBMIT_KEYS = ("enter", "tab", "ctrl+j")
+
+
 class VerdictPad(Static, can_focus=True):
-    """The unit on the bench; holds the verdict keys while it has the focus."""
+    """The unit on the bench; holds the verdict keys while it has the focus.
+
+    The keys are handled in :meth:`on_key` (so a held key can turn out to
+    be the start of a scan); the bindings name them for the key strip and
+    say, through ``check_action``, which are usable now.
+    """
 
     BINDINGS = [
-        Binding("p", "verdict('pass')", "pass"),
-        Binding("space", "verdict('pass')", "pass", show=False),
+        Binding("space", "verdict('pass')", "pass", key_display="space/p"),
+        Binding("p", "verdict('pass')", "pass", show=False),
         Binding("1", "verdict('fail', 'critical')", "fail critical"),
         Binding("2", "verdict('fail', 'major')", "fail major"),
         Binding("3", "verdict('fail', 'minor')", "fail minor"),
@@ -77,11 +103,12 @@ class VerdictPad(Static, can_focus=True):
         Binding("n", "extra('note')", "note"),
         Binding("c", "correct", "correct"),
         Binding("escape", "leave", "leave unit"),
-        # A scanner's trailing Enter, Tab or line feed must not act here.
-        Binding("enter", "nothing", show=False),
-        Binding("tab", "nothing", show=False),
-        Binding("ctrl+j", "nothing", show=False),
     ]
+
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self._held: tuple[str, str] | None = None  # (key, character) waiting for HOLD_SECONDS
+        self._hold_timer = None
 
     def check_action(self, action: str, parameters: tuple) -> bool | None:
         bench = self.screen
@@ -101,15 +128,45 @@ class VerdictPad(Static, can_focus=True):
     def action_leave(self) -> None:
         self.screen.leave_unit()
 
-    def action_nothing(self) -> None:
-        pass
+    def _act(self, key: str) -> None:
+        action, parameters = PAD_KEYS[key]
+        if self.check_action(action, parameters):
+            getattr(self, f"action_{action}")(*parameters)
+
+    def _release_held(self) -> None:
+        """The held key stood alone: act on it."""
+        held, self._held, self._hold_timer = self._held, None, None
+        if held is not None and self.has_focus:
+            self._act(held[0])
 
     def on_key(self, event) -> None:
-        # Any other printable key starts a new entry: hand it to the field.
-        if event.is_printable and event.character and event.key not in ("p", "space", "1", "2", "3", "d", "n", "c"):
-            self.screen.redirect_to_entry(event.character)
-            event.stop()
-            event.prevent_default()
+        key, char = event.key, event.character
+        bench = self.screen
+        if self._held is not None:
+            # A second key within the hold: the held key began a scan.
+            self._hold_timer.stop()
+            held, self._held, self._hold_timer = self._held, None, None
+            bench.redirect_to_entry(held[1], key=key, character=char)
+        elif key == "space" or key == "escape":
+            if key == "escape":
+                return  # the binding handles it (and Escape leaves the unit)
+            self._act(key)
+        elif key in PAD_KEYS:
+            self._held = (key, char or key)
+            self._hold_timer = self.set_timer(HOLD_SECONDS, self._release_held)
+        elif key in SUBMIT_KEYS:
+            # The end of a scan that began here submits it; a lone submit
+            # key (the second half of a scanner's CR LF) does nothing.
+            if bench.in_burst():
+                entry = bench.query_one("#entry", ScanField)
+                entry.focus()
+                bench.stage(entry.value)
+        elif event.is_printable and char:
+            bench.redirect_to_entry(char)
+        else:
+            return
+        event.stop()
+        event.prevent_default()
 
 
 class BenchScreen(LotScreen):
@@ -137,6 +194,7 @@ class BenchScreen(LotScreen):
         # it saved (read by benchmarks/bench_tui.py).
         self.key_time: float | None = None
         self.last_latency: float | None = None
+        self._redirected_at = 0.0
 
     def compose(self) -> ComposeResult:
         yield TopBar(f"bench · lot {self.lot_id}")
@@ -358,11 +416,29 @@ class BenchScreen(LotScreen):
         self.show_pad()
         self.query_one("#pad", VerdictPad).focus()
 
-    def redirect_to_entry(self, character: str) -> None:
+    def in_burst(self, now: float | None = None) -> bool:
+        """True while keys of a scan that began on the pad may still arrive."""
+        return ((time.perf_counter() if now is None else now) - self._redirected_at) < 0.25
+
+    def redirect_to_entry(self, first: str, *, key: str | None = None, character: str | None = None) -> None:
+        """Start a new entry with ``first`` (keys that reached the pad but
+        belong to a scan); a following submit key submits it."""
         entry = self.query_one("#entry", ScanField)
-        entry.focus()
-        entry.value = character
+        now = time.perf_counter()
+        # Characters of one burst that were already routed to the pad are
+        # added to the text; a new burst starts it afresh.
+        if not self.in_burst(now):
+            entry.value = ""
+        self._redirected_at = now
+        entry.value += first
+        if key in SUBMIT_KEYS:
+            entry.focus()
+            self.stage(entry.value)
+            return
+        if character and key not in SUBMIT_KEYS and (character.isprintable()):
+            entry.value += character
         entry.cursor_position = len(entry.value)
+        entry.focus()
 
     def leave_unit(self) -> None:
         self.staged = None

@@ -89,8 +89,8 @@ class DrawScreen(LotScreen):
 
     def on_mount(self) -> None:
         table = self.query_one("#picks", DataTable)
-        for label, key, width in (("pulled", "pulled", 6), ("unit", "unit", 7), ("address", "address", 40),
-                                  ("note", "note", 20)):
+        for label, key, width in (("pulled", "pulled", 6), ("unit", "unit", 6), ("address", "address", 38),
+                                  ("for", "for", 8), ("note", "note", 18)):
             table.add_column(label, key=key, width=width)
         self.query_one("#drawform").display = False
         self.query_one("#picks").display = False
@@ -189,11 +189,19 @@ class DrawScreen(LotScreen):
                 elif line.get("serial"):
                     note = f"serial {line['serial']}"
                 table.add_row("[✓]" if line["unit"] in pulled else "[ ]", str(line["unit"]), line["address"],
-                              note, key=str(line["unit"]))
+                              self.classes_of(line["unit"]), note, key=str(line["unit"]))
         if row is not None and total:
-            table.move_cursor(row=min(row, total - 1))
+            table.call_after_refresh(table.move_cursor, row=min(row, total - 1))
         self.total = total
         self.show_pulled()
+
+    def classes_of(self, unit: int) -> str:
+        """Which classes inspect this unit, in short: crit, maj, min."""
+        classes = (self.report or {}).get("classes") or {}
+        short = {"critical": "crit", "major": "maj", "minor": "min"}
+        done = {(r["unit"], r["class"]) for r in (self.report or {}).get("results", [])}
+        return " ".join(short[c] for c, t in classes.items()
+                        if unit in t.get("open_units", ()) or (unit, c) in done)
 
     def show_pulled(self) -> None:
         pulled = self.app.pulled.get(self.lot_id, set())

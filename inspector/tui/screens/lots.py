@@ -60,7 +60,7 @@ class LotsScreen(Screen):
         Binding("slash", "filter", "filter", key_display="/"),
         Binding("h", "history", "supplier history"),
         Binding("u", "people", "people"),
-        Binding("d", "demo", "load demo lot"),
+        Binding("d", "demo", "demo lot"),
     ]
 
     def __init__(self) -> None:
@@ -200,19 +200,23 @@ class LotsScreen(Screen):
 
     @work(thread=True, exclusive=True, group="demo")
     def _load_demo(self) -> None:
-        from inspector.tui.demo import load_demo
+        from inspector.tui.demo import DEMO_LOT, add_demo_people
 
         try:
             with self.app.write_lock:
-                loaded = load_demo(self.app.workflow)
+                add_demo_people(self.app.workflow)
         except Exception as exc:  # noqa: BLE001
             self.post_message(DemoLoaded(None, one_line(exc)))
         else:
-            self.post_message(DemoLoaded(loaded.lot_id))
+            self.post_message(DemoLoaded(DEMO_LOT))
 
     def on_demo_loaded(self, message: DemoLoaded) -> None:
+        from inspector.tui.demo import demo_lot_fields
+        from inspector.tui.screens.register import RegisterScreen
+
         if message.error:
             self.query_one(Notice).say("error", message.error)
             return
-        self.query_one(Notice).say("saved", f"demo lot {message.lot_id} registered; press Enter to open it")
-        self.refresh_lots()
+        self.query_one(Notice).clear()
+        self.app.bench_person = None  # the demo inspector is now the first inspector
+        self.app.push_screen(RegisterScreen(prefill=demo_lot_fields(message.lot_id)))

@@ -207,6 +207,7 @@ class PlanScreen(LotScreen):
     CSS_PATH = "plan.tcss"
     BINDINGS = [
         Binding("ctrl+s", "adopt", "adopt for class", priority=True),
+        Binding("ctrl+k", "next_class", "class", priority=True),
         Binding("ctrl+t", "route", "risk/table", priority=True),
         Binding("f8", "keep", "keep to compare", priority=True),
         Binding("f9", "unkeep", "drop compared", priority=True),
@@ -251,7 +252,12 @@ class PlanScreen(LotScreen):
 
     def on_mount(self) -> None:
         self.show_route()
+        self.query_one("#aql", Input).focus()
         self.reload()
+
+    def action_next_class(self) -> None:
+        select = self.query_one("#cls", Select)
+        select.value = CLASSES[(CLASSES.index(select.value) + 1) % len(CLASSES)]
 
     def populate(self, report: dict) -> None:
         plans = report.get("plans") or {}

@@ -36,6 +36,12 @@ FIELDS = (
 REQUIRED = ("id", "supplier", "product", "size")
 
 
+def critical_words(on: bool) -> str:
+    """The flag in words, so its state reads without colour."""
+    return ("food or safety-critical: YES — results will be advisory" if on
+            else "food or safety-critical: no (ctrl+f or space to change)")
+
+
 class LotRegistered(Message):
     def __init__(self, lot_id: str) -> None:
         super().__init__()
@@ -59,9 +65,10 @@ class RegisterScreen(Screen):
         Binding("escape", "cancel", "cancel"),
     ]
 
-    def __init__(self) -> None:
+    def __init__(self, *, prefill: dict | None = None) -> None:
         super().__init__()
         self.saving = False
+        self.prefill = dict(prefill or {})
 
     def compose(self) -> ComposeResult:
         yield TopBar("new lot · fill in, then ctrl+s")
@@ -73,7 +80,7 @@ class RegisterScreen(Screen):
                 yield Static("", id=f"e-{name}", classes="field-error")
             with Horizontal(classes="field-row"):
                 yield Label("", classes="field-label")
-                yield Checkbox("food or safety-critical (results advisory)", id="f-critical")
+                yield Checkbox(critical_words(False), id="f-critical")
             yield Static("", id="e-critical", classes="field-error")
         yield Notice("", id="notice", classes="notice")
         yield KeyStrip()
@@ -82,6 +89,13 @@ class RegisterScreen(Screen):
         for name, _label, _ph in FIELDS:
             self.query_one(f"#e-{name}", Static).display = False
         self.query_one("#e-critical", Static).display = False
+        for name, value in self.prefill.items():
+            if name == "critical":
+                self.query_one("#f-critical", Checkbox).value = bool(value)
+            else:
+                self.query_one(f"#f-{name}", Input).value = str(value)
+        if self.prefill:
+            self.query_one(Notice).say("info", "demo lot filled in: check it, then ctrl+s registers it")
         self.query_one("#f-id", Input).focus()
 
     def value(self, name: str) -> str:
@@ -95,6 +109,9 @@ class RegisterScreen(Screen):
     def clear_errors(self) -> None:
         for name, _label, _ph in FIELDS:
             self.set_error(name, "")
+
+    def on_checkbox_changed(self, event: Checkbox.Changed) -> None:
+        event.checkbox.label = critical_words(event.value)
 
     def action_toggle_critical(self) -> None:
         box = self.query_one("#f-critical", Checkbox)
@@ -181,5 +198,5 @@ class RegisterScreen(Screen):
         from inspector.tui.screens.plan import PlanScreen
 
         self.saving = False
-        self.app.switch_screen(PlanScreen(message.lot_id))
-        self.app.notify(f"lot {message.lot_id} registered (saved)", timeout=4)
+        self.app.switch_screen(PlanScreen(message.lot_id, notice=(
+            "saved", f"saved: lot {message.lot_id} registered; now its plan: set AQL and RQL, ctrl+s adopts")))
