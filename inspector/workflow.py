@@ -55,6 +55,10 @@ TRANSITIONS: dict[str | None, tuple[str, ...]] = {
     "rejected": (),
 }
 CLASSES = ("critical", "major", "minor")
+# States in which a lot's latest decision stands (it counts for switching).
+_DECIDED_STATES = ("decided", "on hold", "released", "rejected")
+# States in which a rejected lot can be resubmitted (decided, not released).
+_RESUBMITTABLE_STATES = ("decided", "on hold", "rejected")
 ROLES = ("inspector", "approver")
 DRAW_METHODS = ("simple", "stratified", "two-stage")
 
@@ -166,6 +170,20 @@ class _LotData:
     signatures: list
 
 
+@dataclass(frozen=True, kw_only=True)
+class _SupplierLots:
+    """One supplier and product as the switching rules see it: ``timeline``
+    holds (entry, "lot", lot, latest decision) and (entry, "action",
+    corrective action, None) in recording order; ``undecided`` the lots that do
+    not count (yet)."""
+
+    supplier: str
+    product: str
+    timeline: tuple
+    undecided: tuple
+    result: Any  # inspector.stats.switching.SwitchingResult
+
+
 # --- helpers -------------------------------------------------------------------------------
 
 
@@ -231,6 +249,14 @@ def _frame_refusal(exc, rename: dict[str, str]) -> WorkflowError:
     if message.startswith(exc.field + ":"):
         message = field_name + message[len(exc.field):]
     return WorkflowError(field_name, message)
+
+
+def _allowance(defect_class: str, accept: int, reject: int) -> str:
+    """What a class's plan allows, in words: Ac 0 is shown as no allowance."""
+    if accept == 0:
+        return f"{defect_class}: Ac 0 — any nonconforming unit rejects the lot"
+    return (f"{defect_class}: Ac {accept}, Re {reject} — the lot is accepted with up to {accept} nonconforming "
+            f"unit{'s' if accept != 1 else ''} in the sample and rejected at {reject}")
 
 
 def _what(state: str | None) -> str:
@@ -309,6 +335,7 @@ class Workflow:
         lot_id = _text(lot_id, "id", limit=100)
         supplier = _text(supplier, "supplier", limit=200)
         product = _text(product, "product", limit=200)
+        resubmission_of = _text(resubmission_of, "resubmission_of", required=False, limit=100)
         reference = _text(reference, "reference", required=False, limit=200)
         notes = _text(notes, "notes", required=False)
         if isinstance(size, bool) or not isinstance(size, int) or size < 1:
@@ -339,8 +366,8 @@ class Workflow:
             person = self._person(tx, by) if by is not None else None
             if tx.lot(lot_id) is not None:
                 raise WorkflowError("id", f"id: lot {lot_id!r} is already registered")
-            if resubmission_of is not None and tx.lot(resubmission_of) is None:
-                raise WorkflowError("resubmission_of", f"resubmission_of: no lot {resubmission_of!r}")
+            if resubmission_of is not None:
+                self._check_resubmission(tx, resubmission_of, supplier=supplier, product=product)
             supplier_id = tx.ensure_supplier(supplier)
             product_id = tx.ensure_product(product)
             tx.add_lot(
@@ -373,6 +400,284 @@ class Workflow:
                     "decision": decisions[-1].decision if decisions else None,
                 })
             return out
+
+    # --- suppliers and switching --------------------------------------------------------------
+    #
+    # The switching rules (inspector.stats.switching) run over the lots of one
+    # supplier and product. The sequence is the lots' decisions in the order
+    # they were recorded (a lot takes its place at its first decision, with the
+    # outcome of its latest decision, so a re-decision after a correction
+    # replaces the outcome without reordering), with the corrective actions
+    # recorded for that supplier and product in between. Lots not decided yet
+    # (or back to inspecting after a correction withdrew an early rejection) do
+    # not count. Resubmitted lots are passed on marked as such; the rules skip
+    # them.
+
+    @staticmethod
+    def _check_resubmission(reader: Reader, earlier_id: str, *, supplier: str, product: str) -> None:
+        """A resubmission names a rejected lot of the same supplier and product.
+
+        Resubmitted lots do not count in the switching rules, so marking a lot
+        as one must not be a way to keep it out of them: the earlier lot must
+        exist, come from the same supplier and product, and have been rejected.
+        """
+        earlier = reader.lot(earlier_id)
+        if earlier is None:
+            raise WorkflowError("resubmission_of", f"resubmission_of: no lot {earlier_id!r} is registered")
+        if earlier.supplier != supplier or earlier.product != product:
+            raise WorkflowError("resubmission_of", f"resubmission_of: lot {earlier_id} is {earlier.product} from "
+                                                   f"{earlier.supplier}, not {product} from {supplier}")
+        decisions = reader.decisions(earlier_id)
+        if not decisions:
+            problem = f"has no decision (it is {_what(earlier.state)})"
+        elif decisions[-1].decision != "reject":
+            problem = "was accepted"
+        elif earlier.state not in _RESUBMITTABLE_STATES:
+            problem = f"is {_what(earlier.state)}"
+        else:
+            return
+        raise WorkflowError("resubmission_of", f"resubmission_of: lot {earlier_id} {problem}; only a rejected lot "
+                                               "that was not released can be resubmitted")
+
+    @staticmethod
+    def _products_of(reader: Reader, supplier: str) -> list[str]:
+        """The supplier's products, in the order of their first lot."""
+        out: list[str] = []
+        for lot in reader.lots(supplier=supplier):
+            if lot.product not in out:
+                out.append(lot.product)
+        return out
+
+    def _supplier_and_product(self, reader: Reader, supplier: Any, product: Any, action: str,
+                              *, need_one: bool) -> tuple[str, list[str]]:
+        """Check the supplier (and product) named; return the supplier and the
+        products meant: the one named, else every product of the supplier (or,
+        with ``need_one``, its only product)."""
+        supplier = _text(supplier, "supplier", limit=200)
+        product = _text(product, "product", required=False, limit=200)
+        if reader.supplier(supplier) is None:
+            known = [s.name for s in reader.suppliers()]
+            hint = f" (registered: {', '.join(known[:6])}{' ...' if len(known) > 6 else ''})" if known else ""
+            raise WorkflowError("supplier", f"supplier: no supplier called {supplier!r} is registered{hint}")
+        products = self._products_of(reader, supplier)
+        if product is not None:
+            if product not in products:
+                listing = f" (its products: {'; '.join(products)})" if products else ""
+                raise WorkflowError("product", f"product: {supplier} has no lots of {product!r}{listing}")
+            return supplier, [product]
+        if need_one and len(products) != 1:
+            if not products:
+                raise WorkflowError("supplier", f"supplier: {supplier} has no lots recorded; {action} needs one")
+            raise WorkflowError("product", f"product: {supplier} ships several products ({'; '.join(products)}); "
+                                           f"say which one {action} is for")
+        return supplier, products
+
+    def _supplier_lots(self, reader: Reader, supplier: str, product: str) -> "_SupplierLots":
+        """The switching state of one supplier and product from the record."""
+        from inspector.stats.switching import CorrectiveAction, LotOutcome, switching_state
+
+        every = reader.lots(supplier=supplier)
+        product_of = {lot.lot_id: lot.product for lot in every}
+        timeline: list[tuple[int, str, Any, Any]] = []
+        undecided = []
+        for lot in every:
+            if lot.product != product:
+                continue
+            decisions = reader.decisions(lot.lot_id)
+            if decisions and lot.state in _DECIDED_STATES:
+                timeline.append((decisions[0].id, "lot", lot, decisions[-1]))
+            else:
+                undecided.append(lot)
+        for action in reader.corrective_actions(supplier):
+            # An action tied to no lot was recorded for the supplier as a whole.
+            if action.lot_id is None or product_of.get(action.lot_id) == product:
+                timeline.append((action.id, "action", action, None))
+        timeline.sort(key=lambda item: item[0])
+        events = []
+        for _, kind, item, last in timeline:
+            if kind == "lot":
+                events.append(LotOutcome(lot_id=item.lot_id, accepted=last.decision == "accept",
+                                         resubmitted=item.resubmission_of is not None))
+            else:
+                events.append(CorrectiveAction(note=item.description, by=item.by or ""))
+        result = switching_state(events)
+        return _SupplierLots(supplier=supplier, product=product, timeline=tuple(timeline),
+                             undecided=tuple(undecided), result=result)
+
+    @staticmethod
+    def _switching_record(state: "_SupplierLots") -> dict:
+        """The switching state as stored with a plan: the severity in force when
+        the lot was planned, and why."""
+        result = state.result
+        return {
+            "supplier": state.supplier,
+            "product": state.product,
+            "severity": result.severity,
+            "reduced_eligible": result.reduced_eligible,
+            "reason": result.reason,
+            "lots_counted": sum(1 for step in result.lots if step.counted),
+        }
+
+    @staticmethod
+    def _discontinued_refusal(state: "_SupplierLots") -> WorkflowError:
+        from inspector.stats.switching import REJECTIONS_TO_DISCONTINUE
+
+        last = [step.lot_id for step in state.result.lots if step.note.startswith("inspection discontinued")]
+        after = f", the last lot {last[-1]}" if last else ""
+        return WorkflowError(
+            "lot",
+            f"lot plan: inspection of {state.product} from {state.supplier} is discontinued after "
+            f"{REJECTIONS_TO_DISCONTINUE} lots not accepted on tightened{after}; record corrective action with "
+            "`inspector supplier action` (inspection then resumes on tightened)")
+
+    def switching_for_lot(self, lot_id: str) -> dict:
+        """The switching state of the lot's supplier and product as it stands
+        now: the severity a table plan for this lot would use, and why."""
+        with self.store.reading() as r:
+            data = self._load(r, lot_id, "switching")
+            state = self._supplier_lots(r, data.lot.supplier, data.lot.product)
+        return self._switching_record(state)
+
+    def supplier_history(self, supplier: str, *, product: str | None = None) -> dict:
+        """A supplier's lots (of one product, or of each), each with its outcome
+        and the severity in force for it, and the severity now with the reason.
+
+        ``products`` holds each product's own state (severity,
+        reduced_eligible, reason); with several products and none named, the
+        top-level ``severity`` is the strictest of them, ``reduced_eligible``
+        holds only when it holds for every product, and ``lots`` and
+        ``corrective_actions`` list those of every product (each names its
+        product).
+        """
+        with self.store.reading() as r:
+            supplier, products = self._supplier_and_product(r, supplier, product, "history", need_one=False)
+            sections = [self._history_section(r, supplier, name) for name in products]
+        if not sections:
+            from inspector.stats.switching import switching_state
+
+            empty = switching_state([])
+            return {"supplier": supplier, "product": None, "severity": empty.severity, "reduced_eligible": False,
+                    "reason": empty.reason, "lots": [], "corrective_actions": [], "products": [], "cautions": []}
+        order = ("normal", "tightened", "discontinued")
+        strictest = max(sections, key=lambda sec: order.index(sec["severity"]))
+        one = len(sections) == 1
+        lots = [lot for sec in sections for lot in sec["lots"]]
+        cautions = [ADVISORY] if any(lot["critical"] for lot in lots) else []
+        return {
+            "supplier": supplier,
+            "product": sections[0]["product"] if one else None,
+            "severity": strictest["severity"],
+            "reduced_eligible": all(sec["reduced_eligible"] for sec in sections),
+            "reason": sections[0]["reason"] if one else " ".join(
+                f"{sec['product']}: {sec['reason']}" for sec in sections),
+            "lots": lots,
+            "corrective_actions": [a for sec in sections for a in sec["corrective_actions"]],
+            "products": [{k: sec[k] for k in ("product", "severity", "reduced_eligible", "reason")}
+                         for sec in sections],
+            "cautions": cautions,
+        }
+
+    def _history_section(self, reader: Reader, supplier: str, product: str) -> dict:
+        state = self._supplier_lots(reader, supplier, product)
+        steps = iter(state.result.lots)  # one step per lot event, in the same order
+        lots: list[dict] = []
+        actions: list[dict] = []
+        for _, kind, item, last in state.timeline:
+            if kind == "lot":
+                lots.append(self._history_lot(reader, item, last, next(steps)))
+            else:
+                actions.append({"entry": item.id, "product": product, "note": item.description, "by": item.by,
+                                "at": item.recorded_at, "lot": item.lot_id,
+                                "after_lot": lots[-1]["lot_id"] if lots else None})
+        for lot in state.undecided:
+            lots.append(self._history_lot(reader, lot, None, None))
+        result = state.result
+        return {"supplier": supplier, "product": product, "severity": result.severity,
+                "reduced_eligible": result.reduced_eligible, "reason": result.reason, "lots": lots,
+                "corrective_actions": actions}
+
+    def _history_lot(self, reader: Reader, lot, last, step) -> dict:
+        data = self._load(reader, lot.lot_id, "history")
+        tallies = self._tallies(data)
+        effective = [res for (unit, cls), res in self._effective(data.results).items() if cls in data.plans]
+        planned = None
+        classes = {}
+        for cls, plan in data.plans.items():
+            recorded = (plan.details or {}).get("switching") or {}
+            if recorded.get("severity") is not None:
+                planned = recorded["severity"]  # the latest plan's, in class order
+            t = tallies[cls]
+            classes[cls] = {"chosen_by": plan.chosen_by, "severity": plan.severity, "aql": plan.aql,
+                            "sample_size": plan.sample_size, "accept": plan.accept, "reject": plan.reject,
+                            "inspected": t.inspected, "nonconforming": t.nonconforming, "verdict": t.verdict}
+        if data.draw is not None:
+            sample_size = data.draw.sample_size
+        elif data.plans:
+            sample_size = max(p.sample_size for p in data.plans.values())
+        else:
+            sample_size = None
+        return {
+            "lot_id": lot.lot_id,
+            "product": lot.product,
+            "received_on": lot.received_on,
+            "state": lot.state,
+            "critical": lot.critical,
+            "decision": None if last is None else last.decision,
+            "decision_entry": None if last is None else last.id,
+            "resubmission": lot.resubmission_of is not None,
+            "resubmission_of": lot.resubmission_of,
+            "severity": None if step is None else step.severity,
+            "planned_severity": planned,
+            "counted": False if step is None else step.counted,
+            "note": "not decided: not counted" if step is None else step.note,
+            "nonconforming": len({res.unit for res in effective if res.outcome == "fail"}),
+            "inspected": len({res.unit for res in effective}),
+            "sample_size": sample_size,
+            "classes": classes,
+        }
+
+    def record_corrective_action(self, supplier: str, *, note: str, by: str, product: str | None = None) -> dict:
+        """Record corrective action for a supplier and product (the product may
+        be left out when the supplier has lots of one product only).
+
+        When inspection of that supplier and product is discontinued, the
+        action lets it resume on tightened; otherwise it is kept on record and
+        changes nothing in the switching state. The entry is tied to the lot
+        that discontinued inspection (else the latest decided, else the latest
+        registered lot of that product), which is how its product is known.
+        """
+        note = _text(note, "note")
+        with self.store.transaction() as tx:
+            supplier_name, (product_name,) = self._supplier_and_product(
+                tx, supplier, product, "the corrective action", need_one=True)
+            person = self._person(tx, by)
+            before = self._supplier_lots(tx, supplier_name, product_name)
+            decided = [item for _, kind, item, _ in before.timeline if kind == "lot"]
+            stopping = [step.lot_id for step in before.result.lots if step.note.startswith("inspection discontinued")]
+            if before.result.severity == "discontinued" and stopping:
+                link = stopping[-1]
+            elif decided:
+                link = decided[-1].lot_id
+            else:
+                link = before.undecided[-1].lot_id
+            entry = tx.add_corrective_action(supplier_id=tx.supplier(supplier_name).id, description=note,
+                                             lot_id=link, by_person=person.id)
+            recorded = [c for c in tx.corrective_actions(supplier_name) if c.id == entry][0]
+            after = self._supplier_lots(tx, supplier_name, product_name)
+        return {
+            "entry": entry,
+            "supplier": supplier_name,
+            "product": product_name,
+            "lot": link,
+            "note": note,
+            "by": person.name,
+            "at": recorded.recorded_at,
+            "severity_before": before.result.severity,
+            "severity": after.result.severity,
+            "lifted": before.result.severity == "discontinued" and after.result.severity != "discontinued",
+            "reduced_eligible": after.result.reduced_eligible,
+            "reason": after.result.reason,
+        }
 
     # --- internal: load and tally -------------------------------------------------------------
 
@@ -526,11 +831,21 @@ class Workflow:
         level: str | None = None,
         severity: str | None = None,
         by: str | None = None,
+        table: bool = False,
     ) -> dict:
         """Set the plan of one defect class: designed from AQL/RQL and the risks
         at the actual lot size; typed as n and c (its risks are computed); or
-        looked up in the code-letter tables from AQL, ``level`` and
-        ``severity`` (with its exact risks at this lot size beside it).
+        looked up in the code-letter tables (``table=True``, or ``level`` or
+        ``severity`` given) from the AQL and ``level`` (default II), with its
+        exact risks at this lot size beside it.
+
+        A table plan uses the severity the switching rules give for the lot's
+        supplier and product now (see :meth:`supplier_history`); ``severity``
+        enters one by hand instead, and the plan records it as entered, beside
+        the severity the rules give. While inspection of that supplier and
+        product is discontinued, table plans are refused until corrective
+        action is recorded (:meth:`record_corrective_action`). Every plan
+        records the switching state in force when it was set.
 
         Allowed while the lot is registered or planned (before the draw); a new
         plan for a class replaces the earlier one, which stays in the record.
@@ -540,7 +855,9 @@ class Workflow:
 
         if defect_class not in CLASSES:
             raise WorkflowError("class", f"class: expected critical, major or minor, got {defect_class!r}")
-        table_route = level is not None or severity is not None
+        if not isinstance(table, bool):
+            raise WorkflowError("table", f"table: expected true or false, got {table!r}")
+        table_route = table or level is not None or severity is not None
         if table_route:
             if rql is not None or sample is not None or accept is not None:
                 raise WorkflowError("level", "level: a table plan takes --aql with --level/--severity only "
@@ -553,6 +870,7 @@ class Workflow:
             raise WorkflowError("plan", "plan: give either --aql and --rql, or --sample and --accept")
         with self.store.reading() as r:
             data = self._load(r, lot_id, "lot plan")
+            switching = self._supplier_lots(r, data.lot.supplier, data.lot.product) if table_route else None
         N = data.lot.quantity
         if data.state not in ("registered", "planned"):
             raise WorkflowError("lot", f"lot plan: lot {data.lot.lot_id} is {data.state}; plans are set before the draw")
@@ -560,8 +878,12 @@ class Workflow:
             from inspector.stats.table_risks import table_plan_risks
             from inspector.stats.tables import TableError, lookup_plan
 
+            by_rules = switching.result.severity
+            if by_rules == "discontinued":
+                raise self._discontinued_refusal(switching)
+            used = by_rules if severity is None else severity
             try:
-                tp = lookup_plan(lot_size=N, aql=aql, level=level or "II", severity=severity or "normal")
+                tp = lookup_plan(lot_size=N, aql=aql, level=level or "II", severity=used)
                 risks = table_plan_risks(tp)
             except TableError as exc:
                 raise WorkflowError(exc.field, str(exc) if str(exc).startswith(exc.field)
@@ -572,16 +894,30 @@ class Workflow:
             if tp.rejection_number != c + 1:  # single plans of Tables II-A/II-B have Re = Ac + 1
                 raise WorkflowError("level", f"level: the table gives Ac {c}, Re {tp.rejection_number}; only "
                                              "plans with Re = Ac + 1 are supported")
+            if severity is None:
+                how = (f"Severity {tp.severity} from the switching rules over the recorded lots of "
+                       f"{data.lot.product} from {data.lot.supplier}.")
+            else:
+                how = (f"Severity {tp.severity} entered by hand; the switching rules give {by_rules} for "
+                       f"{data.lot.product} from {data.lot.supplier}.")
+            severity_notes = [how]
+            if switching.result.reduced_eligible:
+                severity_notes.append(
+                    "The supplier is eligible for reduced inspection; no reduced table is given here, so the "
+                    "normal plan is used (a reduced plan is used only when a responsible person enters it).")
             details = {
                 "model": "code-letter table (MIL-STD-105E Tables I, II-A/II-B); exact risks at the lot size beside it",
                 "lot_size": N,
                 "full_inspection": tp.full_inspection,
+                "table": "Table II-A (normal)" if tp.severity == "normal" else "Table II-B (tightened)",
+                "severity_source": "switching rules" if severity is None else "entered",
+                "severity_by_rules": by_rules,
                 "code_letter": tp.code_letter,
                 "plan_letter": tp.plan_letter,
                 "table_sample_size": tp.table_sample_size,
                 "provenance": tp.provenance,
                 "sources": list(tp.sources),
-                "notes": list(tp.notes) + list(risks.notes),
+                "notes": severity_notes + list(tp.notes) + list(risks.notes),
                 "pa_at_aql_lot": risks.pa_at_aql_lot,
                 "pa_at_aql_process": risks.pa_at_aql_process,
                 "rql_at_consumer_risk_lot": risks.rql_at_consumer_risk_lot,
@@ -667,6 +1003,15 @@ class Workflow:
             person_id = self._person(tx, by).id if by is not None else None
             if data.state not in ("registered", "planned"):
                 raise WorkflowError("lot", f"lot plan: lot {data.lot.lot_id} is {data.state}; plans are set before the draw")
+            now = self._supplier_lots(tx, data.lot.supplier, data.lot.product)
+            if table_route and now.result.severity != switching.result.severity:
+                if now.result.severity == "discontinued":
+                    raise self._discontinued_refusal(now)
+                raise WorkflowError("lot", f"lot plan: the switching state of {data.lot.product} from "
+                                           f"{data.lot.supplier} changed meanwhile ({switching.result.severity} -> "
+                                           f"{now.result.severity}); plan again")
+            # The severity in force when the lot was planned, kept with the plan.
+            details["switching"] = self._switching_record(now)
             entry = tx.add_plan(lot_id=data.lot.lot_id, defect_class=defect_class, chosen_by=chosen_by,
                                 sample_size=n, accept=c, reject=c + 1, details=details, by_person=person_id,
                                 **stored)
@@ -1186,7 +1531,9 @@ class Workflow:
             k: {"entry": p.id, "chosen_by": p.chosen_by, "sample_size": p.sample_size, "accept": p.accept,
                 "reject": p.reject, "aql": p.aql, "rql": p.rql, "producer_risk": p.producer_risk,
                 "consumer_risk": p.consumer_risk, "level": p.level, "severity": p.severity,
-                "details": p.details, "at": p.recorded_at}
+                "details": p.details, "at": p.recorded_at,
+                "no_allowance": p.accept == 0,
+                "allowance": _allowance(k, p.accept, p.reject)}
             for k, p in data.plans.items()
         }
         cautions = [SAMPLING_CAUTION]

@@ -23,6 +23,8 @@ COMMAND_MODULES = (
     "inspector.cli.person",
     "inspector.cli.lot",
     "inspector.cli.lots",
+    "inspector.cli.history",
+    "inspector.cli.supplier",
     "inspector.cli.audit",
     "inspector.cli.sheet",
 )

@@ -40,7 +40,7 @@ _OPTION = {
     "manifest": "--manifest",
     "reference": "--reference",
     "notes": "--notes",
-    "resubmission_of": "--resubmission-of",
+    "resubmission_of": "--resubmits",
     "class": "--class",
     "aql": "--aql",
     "rql": "--rql",
@@ -65,6 +65,8 @@ _OPTION = {
     "state": "--state",
     "received_on": "--received",
     "level": "--level",
+    "severity": "--severity",
+    "table": "--table",
 }
 
 
@@ -72,9 +74,13 @@ _OPTION = {
 
 
 @contextmanager
-def workflow_for(args) -> Iterator:
+def workflow_for(args, options: dict[str, str] | None = None) -> Iterator:
     """Build the services on the store named by ``--db``/``$INSPECTOR_DB`` and
-    yield the workflow; turn refusals into one-line errors (exit 2)."""
+    yield the workflow; turn refusals into one-line errors (exit 2).
+
+    ``options`` names, for this command, the argument behind a workflow field
+    where it differs from the lot commands' options (a positional SUPPLIER,
+    say)."""
     from inspector.records import StoreError
     from inspector.services import build_services
     from inspector.workflow import WorkflowError
@@ -86,17 +92,17 @@ def workflow_for(args) -> Iterator:
     try:
         yield services.workflow
     except WorkflowError as exc:
-        raise CommandError(_name_option(exc)) from None
+        raise CommandError(_name_option(exc, options)) from None
     except StoreError as exc:
         raise CommandError(str(exc)) from None
     finally:
         services.close()
 
 
-def _name_option(exc) -> str:
+def _name_option(exc, options: dict[str, str] | None = None) -> str:
     """The workflow's message with its field replaced by our option name."""
     text = str(exc)
-    option = _OPTION.get(exc.field)
+    option = (options or {}).get(exc.field) or _OPTION.get(exc.field)
     if option and text.startswith(exc.field + ":"):
         return f"{option}:{text[len(exc.field) + 1:]}"
     return text
@@ -169,7 +175,8 @@ def register(subparsers) -> None:
     p.add_argument("--reference", metavar="DOC", help="purchase order or delivery note")
     p.add_argument("--critical", action="store_true", help="food or safety-critical goods (results are advisory)")
     p.add_argument("--notes", metavar="TEXT", help="free notes about the delivery")
-    p.add_argument("--resubmission-of", metavar="ID", help="the earlier lot this one resubmits")
+    p.add_argument("--resubmits", "--resubmission-of", dest="resubmission_of", type=_text_arg, metavar="ID",
+                   help="the earlier, rejected lot this one resubmits (resubmitted lots do not count in switching)")
     p.add_argument("--received", metavar="DATE", help="date received, YYYY-MM-DD (default: today)")
     p.add_argument("--by", type=_text_arg, metavar="NAME", help="who registers the lot")
     add_json(p)
@@ -177,7 +184,8 @@ def register(subparsers) -> None:
 
     p = sub.add_parser("plan", help="set the sampling plan of a defect class",
                        description="Design the plan from AQL/RQL and risks at the actual lot size, type n and c, "
-                                   "or look it up in the code-letter tables (--aql with --level/--severity).")
+                                   "or look it up in the code-letter tables (--table --aql A [--level L]) at the "
+                                   "severity the switching rules give for the lot's supplier and product.")
     p.add_argument("lot_id", metavar="ID")
     p.add_argument("--aql", type=_percent_text, metavar="PCT", help="acceptable quality level, percent")
     p.add_argument("--rql", type=_percent_text, metavar="PCT", help="rejectable quality level, percent")
@@ -185,8 +193,10 @@ def register(subparsers) -> None:
     p.add_argument("--consumer-risk", type=_probability_text, metavar="BETA", help="default 0.10")
     p.add_argument("--sample", type=positive_int, metavar="n", help="typed plan: sample size")
     p.add_argument("--accept", type=nonnegative_int, metavar="c", help="typed plan: acceptance number")
-    p.add_argument("--level", metavar="L", help="table plan: inspection level (S-1..S-4, I, II, III)")
-    p.add_argument("--severity", choices=("normal", "tightened"), help="table plan: normal or tightened")
+    p.add_argument("--table", action="store_true", help="look the plan up in the code-letter tables")
+    p.add_argument("--level", metavar="L", help="table plan: inspection level (S-1..S-4, I, II, III; default II)")
+    p.add_argument("--severity", choices=("normal", "tightened"),
+                   help="table plan: enter the severity by hand instead of the switching rules' (recorded as entered)")
     p.add_argument("--class", dest="defect_class", choices=CLASS_CHOICES, default="major",
                    help="defect class (default major)")
     p.add_argument("--by", type=_text_arg, metavar="NAME", help="who sets the plan")
@@ -294,7 +304,7 @@ def _add(args) -> int:
 
 
 def _plan(args) -> int:
-    if args.level is not None or args.severity is not None:
+    if args.table or args.level is not None or args.severity is not None:
         return _table_plan(args)
     risk = args.aql is not None or args.rql is not None or args.producer_risk is not None \
         or args.consumer_risk is not None
@@ -349,7 +359,7 @@ def _plan(args) -> int:
 def _table_plan(args) -> int:
     if args.rql is not None or args.sample is not None or args.accept is not None \
             or args.producer_risk is not None or args.consumer_risk is not None:
-        raise UsageError("--level/--severity: a table plan takes --aql only (no --rql, risks, --sample or --accept)")
+        raise UsageError("--table: a table plan takes --aql only (no --rql, risks, --sample or --accept)")
     if args.aql is None:
         raise UsageError("--aql: a table plan needs --aql")
     level = None
@@ -362,13 +372,42 @@ def _table_plan(args) -> int:
             raise UsageError(f"--level: {exc}") from None
     with workflow_for(args) as wf:
         plan = wf.plan(args.lot_id, defect_class=args.defect_class, aql=args.aql, level=level or "II",
-                       severity=args.severity or "normal", by=args.by)
-    d = plan["details"]
-    emit(args, plan, lambda: "\n".join(
-        [f"Plan for lot {plan['lot']} from the tables: {plan['class']}, level {plan['level']}, {plan['severity']}, "
-         f"AQL {plan['aql']}", f"code letter {d['code_letter']}: n={plan['sample_size']} Ac={plan['accept']} "
-         f"Re={plan['reject']}"] + d["notes"]))
+                       severity=args.severity, by=args.by, table=True)
+    emit(args, plan, lambda: table_plan_text(plan))
     return 0
+
+
+def _fraction_text(value) -> str:
+    return "—" if value is None else f"{value:.4f}"
+
+
+def _percent_of(value) -> str:
+    return "—" if value is None else f"{100 * value:.2f} %"
+
+
+def table_plan_text(plan: dict) -> str:
+    """A table plan as stored, for people to read."""
+    d = plan["details"]
+    source = ("from the switching rules" if d.get("severity_source") == "switching rules"
+              else f"entered by hand; the rules give {d.get('severity_by_rules')}")
+    lines = [
+        f"Plan for lot {plan['lot']} from the tables: {plan['class']}, AQL {plan['aql']}, level {plan['level']}",
+        f"Severity: {plan['severity']} ({source}); {d.get('table', '')}",
+        f"Code letter {d['code_letter']}" + (f" (plan from letter {d['plan_letter']})"
+                                             if d["plan_letter"] != d["code_letter"] else "")
+        + f": n={plan['sample_size']} Ac={plan['accept']} Re={plan['reject']}"
+        + ("  (every unit)" if d["full_inspection"] else "") + f"; cells {d['provenance']}",
+    ]
+    if plan["accept"] == 0:
+        lines.append(f"{plan['class']}: Ac 0 — any nonconforming unit rejects the lot")
+    rows = [["Pa at the AQL", _fraction_text(d["pa_at_aql_lot"]), _fraction_text(d["pa_at_aql_process"])],
+            ["RQL at consumer's risk 0.10", _percent_of(d["rql_at_consumer_risk_lot"]),
+             _percent_of(d["rql_at_consumer_risk_process"])]]
+    lines.append(table(rows, header=["", "this lot", "process"], align="lrr"))
+    lines += d["notes"]
+    if d.get("caution"):
+        lines.append(d["caution"])
+    return "\n".join(lines)
 
 
 def _draw(args) -> int:
@@ -479,7 +518,11 @@ def show_text(s: dict) -> str:
             how = {"risk": f"AQL {p['aql']} % / RQL {p['rql']} %",
                    "table": f"table, level {p.get('level')}, {p.get('severity')}, AQL {p['aql']}"}.get(
                        p["chosen_by"], "typed")
+            if p["chosen_by"] == "table" and (p.get("details") or {}).get("severity_source") == "entered":
+                how += " entered by hand"
             lines.append(f"  {cls}: n={p['sample_size']} Ac={p['accept']} Re={p['reject']} ({how}), entry {p['entry']}")
+            if p.get("no_allowance"):
+                lines.append(f"    {p['allowance']}")
     if s["draw"]:
         d = s["draw"]
         lines.append(f"Draw: {d['method']}, seed {d['seed']}, {d['algorithm']}, {d['sample_size']} units, entry "
