@@ -105,6 +105,16 @@ async def settle(pilot) -> None:
         await pilot.pause()
 
 
+async def wait_for_screen(pilot, name: str, timeout: float = 3.0) -> None:
+    """Wait until the screen on view is the one called ``name``."""
+    import time
+
+    end = time.monotonic() + timeout
+    while type(pilot.app.screen).__name__ != name and time.monotonic() < end:
+        await pilot.pause(0.02)
+    await settle(pilot)
+
+
 def screen_text(app) -> str:
     """What the terminal shows, as plain text lines."""
     strips = app.screen._compositor.render_strips()

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import asyncio
 
-from conftest import make_app, screen_text, settle
+from conftest import make_app, screen_text, settle, wait_for_screen
 
 LOT = "HP-2611-09"
 
@@ -59,8 +59,9 @@ async def _registration_to_release(services):
         _fill(app, "#f-size", "240")
         _fill(app, "#f-structure", "carton=10,jar=24")
         await pilot.press("ctrl+f", "ctrl+s")
-        await settle(pilot)
-        assert type(app.screen).__name__ == "PlanScreen"
+        await wait_for_screen(pilot, "PlanScreen")
+        assert type(app.screen).__name__ == "PlanScreen", screen_text(app)
+        assert f"saved: lot {LOT} registered" in screen_text(app)
         lot = wf.show(LOT)
         assert (lot["size"], lot["critical"], lot["structure_spec"]) == (240, True, "carton=10,jar=24")
 
@@ -127,3 +128,26 @@ async def _registration_to_release(services):
         assert final["decision"] == "accept"
         assert [(s["printed_name"], s["meaning"]) for s in final["signatures"]] == [("Tomasz Quayle", "released by")]
         assert len(final["failed_attempts"]) == 1
+
+
+def test_the_demo_offer_registers_people_and_fills_the_new_lot_form(empty_services):
+    from inspector.tui import demo
+
+    wf = empty_services.workflow
+
+    async def go():
+        app = make_app(empty_services)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await settle(pilot)
+            await pilot.press("d")
+            await wait_for_screen(pilot, "RegisterScreen")
+            assert app.screen.query_one("#f-id").value == demo.DEMO_LOT
+            assert "food or safety-critical: YES" in screen_text(app)
+            assert wf.lots() == []  # nothing registered until the user says so
+            await pilot.press("ctrl+s")
+            await wait_for_screen(pilot, "PlanScreen")
+        lot = wf.show(demo.DEMO_LOT)
+        assert (lot["size"], lot["critical"], lot["supplier"]) == (15552, True, "Harrowgate Preserves")
+        assert {p["name"] for p in wf.people()} == {demo.DEMO_INSPECTOR, demo.DEMO_APPROVER}
+
+    asyncio.run(go())

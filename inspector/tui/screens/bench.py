@@ -180,8 +180,8 @@ class BenchScreen(LotScreen):
         Binding("ctrl+r", "decide", "decide now", priority=True),
     ]
 
-    def __init__(self, lot_id: str) -> None:
-        super().__init__(lot_id)
+    def __init__(self, lot_id: str, **kwargs) -> None:
+        super().__init__(lot_id, **kwargs)
         self.structure = None
         self.samples: dict[str, set[int]] = {}  # class -> units of its sample
         self.current: dict[tuple[int, str], dict] = {}  # (unit, class) -> latest entry
@@ -327,7 +327,7 @@ class BenchScreen(LotScreen):
         elif self.pending:
             lines.append("saving …")
         elif open_:
-            lines.append("p pass · " + " · ".join(f"{k} fail {c}" for k, c in FAIL_KEYS.items() if c in open_))
+            lines.append("space/p pass · " + " · ".join(f"{k} fail {c}" for k, c in FAIL_KEYS.items() if c in open_))
         else:
             lines.append("every class recorded: c corrects, Esc leaves")
         pad.update(escape("\n".join(lines)), layout=False)
@@ -551,7 +551,7 @@ class BenchScreen(LotScreen):
             self.samples[cls] = set(t.sample_units)
         self.query_one(Tally).show_tallies(self.tallies)
         entries = ", ".join(str(r["entry"]) for r in message.rows)
-        what = "correction" if was_correction else out.outcome
+        what = f"corrected to {out.outcome}" if was_correction else out.outcome
         classes = ", ".join(sorted({r["class"] for r in message.rows}))
         text = f"saved: unit {out.unit} {what} in {classes} (entry {entries})"
         if out.note:
@@ -570,7 +570,7 @@ class BenchScreen(LotScreen):
         self.update_top_bar()
         self.correcting = None
         unit_open = self.staged is not None and self.open_classes(self.staged.unit)
-        if not unit_open or was_correction:
+        if not unit_open:
             self.staged = None
             self.query_one("#entry", ScanField).focus()
         self.show_pad()
@@ -608,7 +608,7 @@ class BenchScreen(LotScreen):
             if reason:
                 self.correcting = reason
                 self.show_pad()
-                self.notice().say("info", f"correcting unit {s.unit}: press the new verdict (p, 1, 2, 3)")
+                self.notice().say("info", f"correcting unit {s.unit}: press the new verdict (space/p, 1, 2, 3)")
             self.query_one("#pad", VerdictPad).focus()
 
         self.app.push_screen(ReasonPrompt(

@@ -155,6 +155,11 @@ class DecisionScreen(LotScreen):
         self.query_one("#record", Static).update(escape("\n".join(rec)))
         cautions = [c for c in report.get("cautions", []) if c != ADVISORY] or [SAMPLING_CAUTION]
         self.query_one("#cautions", Static).update(escape("\n".join(cautions)))
+        if getattr(self, "_show_record", False):
+            # After a release, hold or rejection, bring the record of it into view.
+            self._show_record = False
+            body = self.query_one("#body")
+            body.call_after_refresh(body.scroll_to_widget, self.query_one("#record"), animate=False, top=True)
         self.refresh_bindings()
 
     # --- actions -----------------------------------------------------------------------------------
@@ -220,6 +225,7 @@ class DecisionScreen(LotScreen):
 
     def on_disposition_saved(self, message: DispositionSaved) -> None:
         self.notice().say("saved", message.words)
+        self._show_record = True
         self.reload()
 
     def on_disposition_refused(self, message: DispositionRefused) -> None:

@@ -59,8 +59,8 @@ class DrawScreen(LotScreen):
         Binding("x", "substitute", "substitute unit"),
     ]
 
-    def __init__(self, lot_id: str) -> None:
-        super().__init__(lot_id)
+    def __init__(self, lot_id: str, **kwargs) -> None:
+        super().__init__(lot_id, **kwargs)
         self.levels: tuple[str, ...] = ()
         self.picks: dict | None = None
         self.busy = False
@@ -320,4 +320,4 @@ class DrawScreen(LotScreen):
         r = message.result
         self.notice().say("saved", f"saved: unit {r['unit']} replaced by {r['substitute']} ({r['address']}), "
                                    f"entry {r['entry']}")
-        self._pick_list()
+        self.reload()  # the sample changed: the pick list and each unit's classes

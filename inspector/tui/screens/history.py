@@ -79,7 +79,8 @@ class HistoryScreen(LotScreen):
         accepted = sum(1 for r in decided if r.decision == "accept")
         reduced = " · eligible for reduced inspection (needs approval)" if h.reduced_eligible else ""
         self.query_one("#summary", Static).update(escape(
-            f"{h.supplier} · {len(h.rows)} lots, {len(decided)} decided, {accepted} accepted · "
+            f"{h.supplier} · {len(h.rows)} lot{'s' if len(h.rows) != 1 else ''}, {len(decided)} decided, "
+            f"{accepted} accepted · "
             f"severity now: {h.severity.upper()}{reduced}\n{h.reason}"))
         table = self.query_one("#history", DataTable)
         table.clear()

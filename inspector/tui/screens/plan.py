@@ -213,8 +213,8 @@ class PlanScreen(LotScreen):
         Binding("f9", "unkeep", "drop compared", priority=True),
     ]
 
-    def __init__(self, lot_id: str) -> None:
-        super().__init__(lot_id)
+    def __init__(self, lot_id: str, **kwargs) -> None:
+        super().__init__(lot_id, **kwargs)
         self.route = "risk"
         self.generation = 0
         self.on_view: PlanFigures | None = None

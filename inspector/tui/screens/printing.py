@@ -55,8 +55,8 @@ class PrintScreen(LotScreen):
         Binding("space", "tick", "tick sheet"),
     ]
 
-    def __init__(self, lot_id: str) -> None:
-        super().__init__(lot_id)
+    def __init__(self, lot_id: str, **kwargs) -> None:
+        super().__init__(lot_id, **kwargs)
         self.busy = False
         self.ticked: set[str] = set()
 

@@ -34,7 +34,7 @@ class RecentEntries(Widget):
     COMPONENT_CLASSES = {"recent--head", "recent--fail", "recent--old"}
 
     DEFAULT_CSS = """
-    RecentEntries { height: 1fr; padding: 0 1; }
+    RecentEntries { height: 1fr; padding: 0 1; text-wrap: nowrap; text-overflow: ellipsis; }
     RecentEntries > .recent--head { color: $foreground-muted; text-style: bold; }
     RecentEntries > .recent--fail { color: $text-error; }
     RecentEntries > .recent--old { color: $foreground-muted; text-style: strike; }

@@ -24,7 +24,7 @@ class Tally(Static):
     COMPONENT_CLASSES = {"tally--accept", "tally--reject", "tally--head"}
 
     DEFAULT_CSS = """
-    Tally { height: auto; }
+    Tally { height: auto; text-wrap: nowrap; text-overflow: ellipsis; }
     Tally > .tally--accept { color: $success; text-style: bold; }
     Tally > .tally--reject { color: $error; text-style: bold; }
     Tally > .tally--head { color: $foreground-muted; }
