@@ -1492,6 +1492,7 @@ class Workflow:
         draw = None
         if data.draw is not None:
             verification = frame.verify(structure, self._frame_draw(data))
+            frame_draw = data.draw.details.get("frame_draw") or {}
             draw = {
                 "entry": data.draw.id,
                 "method": data.draw.method,
@@ -1502,6 +1503,14 @@ class Workflow:
                 "at": data.draw.recorded_at,
                 "note": data.draw.details.get("note"),
                 "subsample_note": data.draw.details.get("subsample_note"),
+                "title": data.draw.details.get("title"),
+                # what a re-derivation needs beyond method, n and seed
+                "level": frame_draw.get("level"),
+                "container_count": frame_draw.get("container_count"),
+                "per_container": frame_draw.get("per_container"),
+                "containers": frame_draw.get("containers"),
+                "frame": frame_draw.get("frame"),
+                "class_samples": data.draw.details.get("class_samples"),
                 "rederived": verification.ok,
                 "substitutes": [{"entry": s.id, "unit": s.unit, "substitute": s.substitute, "reason": s.reason,
                                  "by": s.by, "at": s.recorded_at} for s in data.substitutes],
