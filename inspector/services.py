@@ -55,12 +55,15 @@ def build_services(
     named = (db_path is not None and str(db_path) != "") or bool(environ.get(ENV_VAR, ""))
     clock = clock or default_clock()
     store = open_store(path, clock=clock, create_dirs=not named)
+    from inspector.sheets.writer import SheetWriter
     from inspector.workflow import Workflow
 
+    workflow = Workflow(store=store, clock=clock)
+    forms = None if forms_dir is None else Path(forms_dir)
     return Services(
         store=store,
-        workflow=Workflow(store=store, clock=clock),
-        sheets=None,
-        forms_dir=None if forms_dir is None else Path(forms_dir),
+        workflow=workflow,
+        sheets=SheetWriter(workflow=workflow, forms_dir=forms, clock=store.clock),
+        forms_dir=forms,
     )
 

@@ -68,8 +68,6 @@ def run(args) -> int:
 
     from inspector.records import StoreError
     from inspector.services import build_services
-    from inspector.sheets.build import sheet_model_for_lot
-    from inspector.sheets.render import render_sheet
 
     try:
         services = build_services(getattr(args, "db", None), forms_dir=args.forms)
@@ -86,8 +84,7 @@ def run(args) -> int:
         if args.sheet in _NEEDS_DRAW and not data.stops:
             raise CommandError(f"LOT: lot {data.lot.lot_id} has no sample drawn yet, so there is no {args.sheet} sheet")
         try:
-            pages = render_sheet(args.sheet, data, args.output, forms_dir=services.forms_dir,
-                                 clock=services.store.clock)
+            pages = services.sheets.write(args.sheet, args.lot, args.output, data=data)
         except FormError as exc:
             raise CommandError(str(exc)) from None
         except OSError as exc:

@@ -97,8 +97,9 @@ def test_release_sheet_from_the_record(store, tmp_path, capsys):
     section = text.split("Nonconforming units", 1)[1].split("Corrections", 1)[0]
     for r in bad:
         assert re.search(rf"(?<![\d]){r['unit']}(?![\d])", section)
+    # the stratification level is named, so the line re-derives the draw as printed
     assert "inspector draw --structure pallet=18,layer=4,carton=9,jar=24 --lot-size 15552 --sample 20 " \
-           "--method stratified --seed 4242" in text
+           "--method stratified --by pallet --seed 4242" in text
 
 
 def test_pick_list_codes_are_the_drawn_units(store, tmp_path, capsys):
