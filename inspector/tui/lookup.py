@@ -12,9 +12,6 @@ call those and this module should shrink.
   ``inspector.sheets.codes.parse_unit_code``). The workflow's ``record``
   resolves the first three itself but not scanned codes, and the bench must
   show which unit is on it before a verdict key is pressed.
-* :func:`supplier_history` -- a supplier's lots with their results, the
-  nonconforming rate per lot and the switching severity
-  (``inspector.stats.switching``).
 """
 
 from __future__ import annotations
@@ -92,56 +89,3 @@ def resolve_entry(structure, lot_id: str, text: str) -> Resolved:
     address = structure.address_of(unit)
     return Resolved(unit=unit, address=str(address), serial=address.serial, typed=typed,
                     for_workflow=unit, how="code")
-
-
-@dataclass(frozen=True, kw_only=True)
-class HistoryRow:
-    lot_id: str
-    received_on: str
-    product: str
-    size: int
-    state: str
-    decision: str | None
-    inspected: int
-    nonconforming: int
-    severity: str | None  # switching severity in effect for this lot (decided lots only)
-
-    @property
-    def rate(self) -> float | None:
-        return None if self.inspected == 0 else self.nonconforming / self.inspected
-
-
-@dataclass(frozen=True, kw_only=True)
-class History:
-    supplier: str
-    rows: tuple[HistoryRow, ...]
-    severity: str
-    reason: str
-    reduced_eligible: bool
-
-
-def supplier_history(workflow, supplier: str) -> History:
-    """A supplier's lots in the order received, with the units inspected and
-    found nonconforming (in any class; the latest entry per unit and class
-    counts, so corrections are applied), and the switching severity."""
-    from inspector.stats.switching import LotOutcome, switching_state
-
-    lots = workflow.lots(supplier=supplier)
-    reports = [workflow.show(item["id"]) for item in lots]
-    reports.sort(key=lambda rep: (rep["received_on"] or "", rep["registered_at"] or ""))
-    outcomes = [LotOutcome(lot_id=rep["id"], accepted=rep["decision"] == "accept",
-                           resubmitted=rep.get("resubmission_of") is not None)
-                for rep in reports if rep["decision"] in ("accept", "reject")]
-    switching = switching_state(outcomes)
-    severity_of = {step.lot_id: step.severity for step in switching.lots}
-    rows = []
-    for rep in reports:
-        current = [r for r in rep["results"] if r.get("current")]
-        inspected = {r["unit"] for r in current}
-        failed = {r["unit"] for r in current if r["outcome"] == "fail"}
-        rows.append(HistoryRow(lot_id=rep["id"], received_on=rep["received_on"] or "", product=rep["product"],
-                               size=rep["size"], state=rep["state"], decision=rep["decision"],
-                               inspected=len(inspected), nonconforming=len(failed),
-                               severity=severity_of.get(rep["id"])))
-    return History(supplier=supplier, rows=tuple(rows), severity=switching.severity, reason=switching.reason,
-                   reduced_eligible=switching.reduced_eligible)

@@ -40,7 +40,8 @@ def other_screen(make, then=None):
 async def _compare_two_plans(pilot):
     await pilot.press("f8")  # keep the designed plan, then look at a tighter RQL beside it
     pilot.app.screen.query_one("#rql").value = "3"
-    await pilot.pause(0.3)
+    pilot.app.screen.recompute()  # now, rather than after the pause in typing the screen waits for
+    await settle(pilot)
 
 
 async def _mark_two_pulled(pilot):

@@ -1,7 +1,8 @@
 """Supplier history: the supplier's lots in the order received, each with
 what was inspected and found, the nonconforming rate drawn as a bar (so
 the trend reads down the column), the decision, and the switching severity
-(normal / tightened / discontinued) the switching rules give."""
+(normal / tightened / discontinued) in force for it -- all from the
+workflow's ``supplier_history``."""
 
 from __future__ import annotations
 
@@ -64,28 +65,36 @@ class HistoryScreen(LotScreen):
 
     @work(thread=True, exclusive=True, group="history")
     def _history(self, supplier: str) -> None:
-        from inspector.tui.lookup import supplier_history
-
         try:
-            history = supplier_history(self.workflow, supplier)
+            history = self.workflow.supplier_history(supplier)
         except Exception as exc:  # noqa: BLE001
             self.app.call_from_thread(self.notice().say, "error", one_line(exc))
             return
         self.post_message(HistoryRead(history))
 
     def on_history_read(self, message: HistoryRead) -> None:
-        h = message.history
-        decided = [r for r in h.rows if r.decision]
-        accepted = sum(1 for r in decided if r.decision == "accept")
-        reduced = " · eligible for reduced inspection (needs approval)" if h.reduced_eligible else ""
-        self.query_one("#summary", Static).update(escape(
-            f"{h.supplier} · {len(h.rows)} lot{'s' if len(h.rows) != 1 else ''}, {len(decided)} decided, "
-            f"{accepted} accepted · "
-            f"severity now: {h.severity.upper()}{reduced}\n{h.reason}"))
+        h = message.history  # Workflow.supplier_history
+        lots = h["lots"]
+        decided = [lot for lot in lots if lot["decision"]]
+        accepted = sum(1 for lot in decided if lot["decision"] == "accept")
+        reduced = " · eligible for reduced inspection (needs approval)" if h["reduced_eligible"] else ""
+        actions = h.get("corrective_actions") or []
+        acted = f" · {len(actions)} corrective action{'s' if len(actions) != 1 else ''}" if actions else ""
+        lines = [f"{h['supplier']} · {len(lots)} lot{'s' if len(lots) != 1 else ''}, {len(decided)} decided, "
+                 f"{accepted} accepted{acted} · severity now: {h['severity'].upper()}{reduced}", h["reason"]]
+        lines += [f"⚠ {c}" for c in h.get("cautions") or []]
+        self.query_one("#summary", Static).update(escape("\n".join(lines)))
         table = self.query_one("#history", DataTable)
         table.clear()
-        top = max([r.rate for r in h.rows if r.rate is not None] + [0.0])
-        for r in h.rows:
-            decision = decision_words(r.decision) if r.decision else state_words(r.state)
-            table.add_row(r.received_on, r.lot_id, str(r.inspected), str(r.nonconforming), rate_bar(r.rate, top),
-                          decision, r.severity or "—", key=r.lot_id)
+
+        def rate(lot: dict) -> float | None:
+            return lot["nonconforming"] / lot["inspected"] if lot["inspected"] else None
+
+        top = max([rate(lot) for lot in lots if rate(lot) is not None] + [0.0])
+        for lot in lots:
+            decision = decision_words(lot["decision"]) if lot["decision"] else state_words(lot["state"])
+            severity = lot["severity"] or "—"
+            if lot.get("resubmission"):
+                severity += " (resub.)"
+            table.add_row(lot["received_on"] or "", lot["lot_id"], str(lot["inspected"]), str(lot["nonconforming"]),
+                          rate_bar(rate(lot), top), decision, severity, key=lot["lot_id"])

@@ -220,6 +220,8 @@ class PlanScreen(LotScreen):
         self.on_view: PlanFigures | None = None
         self.kept: PlanFigures | None = None
         self._timer = None
+        self.severity_in_force = "normal"
+        self.switching_words = ""
 
     def compose(self) -> ComposeResult:
         yield TopBar(f"plan · lot {self.lot_id}")
@@ -260,6 +262,7 @@ class PlanScreen(LotScreen):
         select.value = CLASSES[(CLASSES.index(select.value) + 1) % len(CLASSES)]
 
     def populate(self, report: dict) -> None:
+        self._switching()
         plans = report.get("plans") or {}
         if plans:
             parts = [f"{k} n={p['sample_size']} Ac={p['accept']} ({p['chosen_by']})" for k, p in plans.items()]
@@ -271,6 +274,24 @@ class PlanScreen(LotScreen):
         self.query_one("#adopted", Static).update(escape(words))
         self.recompute()
 
+    @work(thread=True, exclusive=True, group="switching")
+    def _switching(self) -> None:
+        try:
+            state = self.workflow.switching_for_lot(self.lot_id)
+        except Exception:  # noqa: BLE001 - the tables then start from normal, as the standard does
+            return
+        self.app.call_from_thread(self._set_switching, state)
+
+    def _set_switching(self, state: dict) -> None:
+        severity = state.get("severity") or "normal"
+        self.switching_words = f"switching: {severity} — {state.get('reason', '')}"
+        if severity in SEVERITIES and severity != self.severity_in_force:
+            self.severity_in_force = severity
+            self.query_one("#severity", Select).value = severity
+        elif severity not in SEVERITIES:
+            self.severity_in_force = severity  # discontinued: the workflow refuses table plans
+        self.show_route()
+
     # --- inputs ---------------------------------------------------------------------------------------
 
     def show_route(self) -> None:
@@ -278,7 +299,7 @@ class PlanScreen(LotScreen):
         self.query_one("#row-table").display = self.route == "table"
         self.query_one("#route-words", Static).update(
             "route: design from AQL/RQL (ctrl+t: tables)" if self.route == "risk"
-            else "route: code-letter table (ctrl+t: design)")
+            else f"route: table, {self.severity_in_force} in force (ctrl+t: design)")
 
     def inputs(self) -> dict:
         def val(i: str) -> str:
@@ -295,7 +316,10 @@ class PlanScreen(LotScreen):
 
     @on(Input.Changed)
     @on(Select.Changed)
-    def _changed(self) -> None:
+    def _changed(self, event) -> None:
+        if (self.notice().kind == "saved" and self.on_view is not None
+                and getattr(event.control, "has_focus", False)):
+            self.notice().clear()  # the user moved on from what was saved
         if self._timer is not None:
             self._timer.stop()
         # Wait for a pause in typing before recomputing.
@@ -324,7 +348,7 @@ class PlanScreen(LotScreen):
         self.on_view = message.figures
         self.draw_figures()
         notes = "; ".join(message.figures.notes[:1])
-        if self.notice().kind not in ("saved", "warning") or notes:
+        if self.notice().kind not in ("saved", "warning"):  # a "saved" stays until the next action
             self.notice().say("info", notes)
 
     def on_plan_failed(self, message: PlanFailed) -> None:
@@ -347,6 +371,7 @@ class PlanScreen(LotScreen):
     # --- actions --------------------------------------------------------------------------------------
 
     def action_route(self) -> None:
+        self.notice().clear()
         self.route = "table" if self.route == "risk" else "risk"
         self.show_route()
         self.recompute()
@@ -374,8 +399,9 @@ class PlanScreen(LotScreen):
             kwargs = dict(defect_class=cls, aql=f.inputs["aql"], rql=f.inputs["rql"],
                           producer_risk=f.inputs["producer_risk"], consumer_risk=f.inputs["consumer_risk"])
         else:
-            # The workflow takes a table plan as its n and c; the look-up is in the label.
-            kwargs = dict(defect_class=cls, sample=f.sample_size, accept=f.accept)
+            kwargs = dict(defect_class=cls, table=True, aql=f.inputs["table_aql"], level=f.inputs["level"])
+            if f.inputs["severity"] != self.severity_in_force:
+                kwargs["severity"] = f.inputs["severity"]  # entered by hand; the record keeps both
         kwargs["by"] = self.app.current_inspector()
         self.notice().say("info", f"saving the {cls} plan …")
         self._adopt(kwargs)
