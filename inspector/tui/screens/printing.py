@@ -144,21 +144,31 @@ class PrintScreen(LotScreen):
 
     @work(thread=True, exclusive=True, group="print")
     def _write(self, sheets: list[str], folder: str) -> None:
+        services = self.app.services
+        writer = services.sheets  # the services' sheet writer, when this build has one
         lines: list[str] = []
         failed = False
         try:
-            from inspector.sheets.build import sheet_model_for_lot
-            from inspector.sheets.render import render_sheet
+            if writer is not None:
+                data = writer.model(self.lot_id)
 
-            data = sheet_model_for_lot(self.workflow, self.lot_id)
+                def write(sheet: str, path: Path) -> int:
+                    return writer.write(sheet, self.lot_id, path, data=data)
+            else:
+                from inspector.sheets.build import sheet_model_for_lot
+                from inspector.sheets.render import render_sheet
+
+                data = sheet_model_for_lot(self.workflow, self.lot_id)
+
+                def write(sheet: str, path: Path) -> int:
+                    return render_sheet(sheet, data, path, forms_dir=services.forms_dir, clock=services.store.clock)
         except Exception as exc:  # noqa: BLE001
             self.post_message(SheetsWritten([f"✘ {one_line(exc)}"], True))
             return
-        services = self.app.services
         for sheet in sheets:
             path = sheet_path(folder, self.lot_id, sheet)
             try:
-                pages = render_sheet(sheet, data, path, forms_dir=services.forms_dir, clock=services.store.clock)
+                pages = write(sheet, path)
             except OSError as exc:
                 failed = True
                 lines.append(f"✘ {sheet}: cannot write {str(path)!r} ({exc.strerror or exc})")
