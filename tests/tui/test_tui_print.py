@@ -12,6 +12,8 @@ from inspector.tui.screens import open_lot_screen
 
 def test_the_release_sheet_is_written_where_asked(seeded_services, tmp_path):
     lot = "HP-2610-03"
+    out = tmp_path / "sheets"
+    out.mkdir()
 
     async def go():
         app = make_app(seeded_services)
@@ -20,11 +22,11 @@ def test_the_release_sheet_is_written_where_asked(seeded_services, tmp_path):
             open_lot_screen(app, "print", lot)
             await settle(pilot)
             folder = app.screen.query_one("#folder")
-            folder.value = str(tmp_path / "missing")
+            folder.value = str(out / "missing")
             await pilot.press("ctrl+s")
             await settle(pilot)
             assert "output folder: no such folder" in screen_text(app)
-            folder.value = str(tmp_path)
+            folder.value = str(out)
             await pilot.press("ctrl+s")
             await settle(pilot)
             shown = screen_text(app)
@@ -32,6 +34,6 @@ def test_the_release_sheet_is_written_where_asked(seeded_services, tmp_path):
             assert "✔ release:" in shown
 
     asyncio.run(go())
-    written = list(tmp_path.iterdir())
+    written = list(out.iterdir())
     assert [p.name for p in written] == [f"{lot}-release.pdf"]
     assert written[0].read_bytes().startswith(b"%PDF")
