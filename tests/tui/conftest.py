@@ -100,7 +100,7 @@ async def settle(pilot) -> None:
     """Let workers finish and their messages be handled (a worker's message
     may start another worker, hence the rounds)."""
     app = pilot.app
-    for _ in range(3):
+    for _ in range(2):
         await app.workers.wait_for_complete()
         await pilot.pause()
 

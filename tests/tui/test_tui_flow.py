@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import asyncio
 
-from conftest import make_app, screen_text, settle, wait_for_screen
+from conftest import burst, make_app, screen_text, settle, wait_for_screen
 
 LOT = "HP-2611-09"
 
@@ -91,9 +91,8 @@ async def _registration_to_release(services):
         await pilot.press("f4")
         await settle(pilot)
         for unit in drawn["units"]:
-            _fill(app, "#entry", str(unit))
-            await pilot.press("enter", "p")
-            await settle(pilot)
+            await burst(pilot, str(unit), "enter")
+            await burst(pilot, " ", None)  # space: pass
         text = screen_text(app)
         assert f"saved: unit {drawn['units'][-1]} pass in major" in text
         assert "ACCEPT ✔" in text
