@@ -2,7 +2,7 @@
 
 Screens call the workflow for everything that changes a lot; slow calls
 (store writes, plan design, secret checks) run in thread workers and report
-back with past-tense messages. The app keeps only what the session needs:
+back with past-tense messages. The app keeps only what one run of it needs:
 who is at the bench and which units were marked as pulled.
 """
 

@@ -1,5 +1,5 @@
 """Fixtures for the terminal UI tests: real services on a temporary store,
-a fixed clock, and a seeded store built once per session and copied per
+a fixed clock, and a seeded store built once per test run and copied per
 test (so each test starts from the same record and may change it)."""
 
 from __future__ import annotations

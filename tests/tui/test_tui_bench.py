@@ -150,7 +150,7 @@ def test_a_correction_asks_for_a_reason_and_keeps_the_original(seeded_services):
             await pilot.press("c")
             await settle(pilot)
             assert "correct unit" in screen_text(app)
-            await pilot.press("enter")  # no reason: refused by the prompt
+            await pilot.press("enter")  # no reason: refused by the dialog
             await settle(pilot)
             assert "expected text, got nothing" in screen_text(app)
             await burst(pilot, "cap was loose", "enter")

@@ -198,7 +198,7 @@ class BenchScreen(LotScreen):
 
     def compose(self) -> ComposeResult:
         yield TopBar(f"bench · lot {self.lot_id}")
-        yield Label("unit number, address, serial or label code — Enter, Tab or ctrl+j submits", id="prompt")
+        yield Label("unit number, address, serial or label code — Enter, Tab or ctrl+j submits", id="hint")
         yield ScanField(placeholder="scan or type a unit", id="entry")
         yield Notice("", id="notice", classes="notice")
         yield VerdictPad("", id="pad")
@@ -599,7 +599,7 @@ class BenchScreen(LotScreen):
         s = self.staged
         if s is None:
             return
-        from inspector.tui.screens.prompts import ReasonPrompt
+        from inspector.tui.screens.dialogs import ReasonDialog
 
         earlier = [self.current[(s.unit, c)] for c in self.holding(s.unit) if (s.unit, c) in self.current]
         detail = "; ".join(f"{r['class']}: {r['outcome']} (entry {r['entry']})" for r in earlier)
@@ -611,7 +611,7 @@ class BenchScreen(LotScreen):
                 self.notice().say("info", f"correcting unit {s.unit}: press the new verdict (space/p, 1, 2, 3)")
             self.query_one("#pad", VerdictPad).focus()
 
-        self.app.push_screen(ReasonPrompt(
+        self.app.push_screen(ReasonDialog(
             f"correct unit {s.unit}: why?", detail=f"recorded now: {detail}. The original entry stays in the "
             "record; the correction points at it.", placeholder="reason for the correction"), answered)
 

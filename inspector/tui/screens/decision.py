@@ -170,30 +170,30 @@ class DecisionScreen(LotScreen):
                   + (" — already recorded" if r.get("already") else ""))
 
     def action_hold(self) -> None:
-        from inspector.tui.screens.prompts import ReasonPrompt
+        from inspector.tui.screens.dialogs import ReasonDialog
 
         def answered(reason: str | None) -> None:
             if reason:
                 self._run("hold", lambda wf: wf.hold(self.lot_id, reason=reason, by=self.app.current_inspector()),
                           lambda r: f"saved: lot on hold — {r['reason']} (entry {r['entry']})")
 
-        self.app.push_screen(ReasonPrompt(f"put lot {self.lot_id} on hold: why?",
+        self.app.push_screen(ReasonDialog(f"put lot {self.lot_id} on hold: why?",
                                           placeholder="reason (awaiting lab result, supplier contacted, …)"),
                              answered)
 
     def action_reject(self) -> None:
-        from inspector.tui.screens.prompts import ReasonPrompt
+        from inspector.tui.screens.dialogs import ReasonDialog
 
         def answered(reason: str | None) -> None:
             if reason:
                 self._run("reject", lambda wf: wf.reject(self.lot_id, reason=reason, by=self.app.current_inspector()),
                           lambda r: f"saved: lot rejected — {r['reason']} (entry {r['entry']})")
 
-        self.app.push_screen(ReasonPrompt(f"reject lot {self.lot_id}: what happens to it?",
+        self.app.push_screen(ReasonDialog(f"reject lot {self.lot_id}: what happens to it?",
                                           placeholder="reason (return to supplier, scrap, …)"), answered)
 
     def action_release(self) -> None:
-        from inspector.tui.screens.prompts import SignPrompt
+        from inspector.tui.screens.dialogs import SignDialog
         from inspector.workflow import ADVISORY
 
         approvers = self.app.people("approver")
@@ -206,7 +206,7 @@ class DecisionScreen(LotScreen):
                           lambda r: f"saved: lot released, signed by {r['signature']['printed_name']} "
                                     f"(entry {r['signature']['entry']})")
 
-        self.app.push_screen(SignPrompt(lot_id=self.lot_id, name=approvers[0] if len(approvers) == 1 else "",
+        self.app.push_screen(SignDialog(lot_id=self.lot_id, name=approvers[0] if len(approvers) == 1 else "",
                                         caution=caution), answered)
 
     def _run(self, what: str, call, words) -> None:

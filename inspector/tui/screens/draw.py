@@ -207,7 +207,7 @@ class DrawScreen(LotScreen):
         pulled = self.app.pulled.get(self.lot_id, set())
         count = sum(1 for s in self.picks["stops"] for line in s["units"] if line["unit"] in pulled)
         self.query_one("#pulled", Static).update(
-            f"pulled {count} of {self.total} (kept for this session) · walk the list top to bottom")
+            f"pulled {count} of {self.total} (kept until the app closes) · walk the list top to bottom")
 
     # --- actions --------------------------------------------------------------------------------------
 
@@ -289,7 +289,7 @@ class DrawScreen(LotScreen):
         unit = self.selected_unit()
         if unit is None:
             return
-        from inspector.tui.screens.prompts import ReasonPrompt
+        from inspector.tui.screens.dialogs import ReasonDialog
 
         who = self.app.current_inspector()
         if who is None:
@@ -301,7 +301,7 @@ class DrawScreen(LotScreen):
                 self.notice().say("info", f"replacing unit {unit} …")
                 self._substitute(unit, reason, who)
 
-        self.app.push_screen(ReasonPrompt(
+        self.app.push_screen(ReasonDialog(
             f"replace unit {unit} with a substitute", placeholder="reason (missing, broken in transit, …)",
             detail="the next unit of the draw's substitute sequence takes its place; both stay in the record"),
             answered)

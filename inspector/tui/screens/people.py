@@ -1,6 +1,6 @@
 """People: who inspects and who approves. Add a person (name, role and
 secret, masked); choose who is at the bench, i.e. whose name the results
-are recorded under in this session."""
+are recorded under while the app runs."""
 
 from __future__ import annotations
 

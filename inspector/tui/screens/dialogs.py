@@ -15,10 +15,10 @@ from textual.widgets import Input, Label, Static
 from inspector.tui.widgets import KeyStrip
 
 
-class ReasonPrompt(ModalScreen[str | None]):
+class ReasonDialog(ModalScreen[str | None]):
     """One line of text with a question above it; Enter answers."""
 
-    CSS_PATH = "prompts.tcss"
+    CSS_PATH = "dialogs.tcss"
     # Enter reaches the field first (it submits); the binding is here so the
     # key strip names it.
     BINDINGS = [
@@ -61,11 +61,11 @@ class ReasonPrompt(ModalScreen[str | None]):
         self.dismiss(None)
 
 
-class SignPrompt(ModalScreen[dict | None]):
+class SignDialog(ModalScreen[dict | None]):
     """An approver's printed name, the meaning of the signature and the
     secret (masked). Returns ``{"by", "meaning", "secret"}``."""
 
-    CSS_PATH = "prompts.tcss"
+    CSS_PATH = "dialogs.tcss"
     BINDINGS = [
         Binding("ctrl+s", "answer", "sign", priority=True),
         Binding("escape", "cancel", "cancel"),
