@@ -40,7 +40,7 @@ def other_screen(make, then=None):
 async def _compare_two_plans(pilot):
     await pilot.press("f8")  # keep the designed plan, then look at a tighter RQL beside it
     pilot.app.screen.query_one("#rql").value = "3"
-    pilot.app.screen.recompute()  # now, rather than after the pause in typing the screen waits for
+    await pilot.pause(0.35)  # past the pause in typing the screen waits for before recomputing
     await settle(pilot)
 
 

@@ -326,6 +326,9 @@ class PlanScreen(LotScreen):
         self._timer = self.set_timer(0.2, self.recompute)
 
     def recompute(self) -> None:
+        if self._timer is not None:  # a recompute asked now replaces the one waiting
+            self._timer.stop()
+            self._timer = None
         if self.report is None:
             return
         self.generation += 1
