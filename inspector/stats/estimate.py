@@ -218,6 +218,11 @@ def _reading(x: int, n: int, p_aql: float, p_rql: float, aql: float, rql: float)
 
 
 def _pct(p: float) -> str:
+    """A chance in percent for a sentence: two significant digits, no exponent."""
     if p < 0.0001:
         return "under 0.01 %"
-    return f"{100 * p:.2g} %"
+    if p > 0.9999:
+        return "over 99.99 %" if p < 1.0 else "100 %"
+    pct = 100 * p
+    digits = max(0, 1 - math.floor(math.log10(pct)))
+    return f"{pct:.{digits}f} %"

@@ -110,3 +110,10 @@ def test_bounds_at_a_billion_units_are_exact_where_scipy_drifts():
     sf = lambda D: 1 - sum(mp.binomial(D, k) * mp.binomial(N - D, n - k) for k in range(x)) / mp.binomial(N, n)
     assert sf(e.lower_defectives) > a >= sf(e.lower_defectives - 1)
     assert cdf(e.upper_bound_defectives) > 2 * a >= cdf(e.upper_bound_defectives + 1)
+
+
+@pytest.mark.parametrize("found", [0, 1, 3, 9])
+def test_evidence_reading_writes_chances_as_plain_percentages(found):
+    ev = evidence(lot_size=1000, sample_size=50, found=found, aql=0, rql=5)
+    assert "e+" not in ev.reading and "e-" not in ev.reading
+    assert "%" in ev.reading
