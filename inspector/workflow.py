@@ -30,6 +30,8 @@ Rules
 
 from __future__ import annotations
 
+import dataclasses
+
 import hashlib
 import secrets as _entropy
 from dataclasses import dataclass
@@ -276,6 +278,18 @@ class Workflow:
         self.store = store
         self.clock = clock or store.clock
         self._entropy = entropy or (lambda: _entropy.randbits(_SEED_BITS))
+        # Result entries already read, per lot. Results are append-only and
+        # numbered in commit order, so later reads fetch only newer entries:
+        # recording at a bench with thousands of results stays fast.
+        self._results_seen: dict[str, tuple] = {}
+
+    def _results(self, reader: Reader, lot_id: str) -> list:
+        seen = self._results_seen.get(lot_id, ())
+        new = reader.results(lot_id, after=seen[-1].id if seen else 0)
+        if new:
+            seen = seen + tuple(new)
+            self._results_seen[lot_id] = seen
+        return list(seen)
 
     # --- people --------------------------------------------------------------------------
 
@@ -696,7 +710,7 @@ class Workflow:
             plans={k: plans[k] for k in CLASSES if k in plans},
             draw=draws[-1] if draws else None,
             substitutes=reader.substitutes(lot_id),
-            results=reader.results(lot_id),
+            results=self._results(reader, lot.lot_id),
             decisions=reader.decisions(lot_id),
             dispositions=reader.dispositions(lot_id),
             signatures=reader.signatures(lot_id),
@@ -1243,7 +1257,10 @@ class Workflow:
             if state == "drawn":
                 self._transition(tx, lid, "drawn", "inspecting", by_person=person.id)
                 state = "inspecting"
-            fresh = self._load(tx, lid, "lot record")
+            # The lot as it stands now: what was loaded plus the new entries
+            # (read back by id; reloading every result would cost O(results)).
+            fresh = dataclasses.replace(data, state=state,
+                                        results=data.results + [tx.result(e) for e in entries])
             tallies = self._tallies(fresh)
             decision = None
             if self._computed_decision(tallies) == "reject":
@@ -1297,7 +1314,7 @@ class Workflow:
             entry = tx.add_result(lot_id=lid, unit=number, defect_class=defect_class, outcome=outcome,
                                   by_person=person.id, defect=defect, note=note, corrects=current.id,
                                   reason=reason, entered_as=typed if typed != str(number) else None)
-            fresh = self._load(tx, lid, "lot correct")
+            fresh = dataclasses.replace(data, results=data.results + [tx.result(entry)])
             tallies = self._tallies(fresh)
             computed = self._computed_decision(tallies)
             state, decision, note_out = data.state, None, None

@@ -504,10 +504,14 @@ class Reader:
             r.pop("by_person")
         return [Substitute(**r) for r in rows]
 
-    def results(self, lot_id: str) -> list[Result]:
+    def results(self, lot_id: str, *, after: int = 0) -> list[Result]:
+        """The lot's result entries in entry order; with ``after``, only those
+        with a larger entry number (entries are append-only and numbered in
+        commit order, so a reader may keep what it read and ask for the rest)."""
         rows = self._rows(
-            f"SELECT r.*, {_PERSON_NAME.format(alias='r')} AS [by] FROM results r WHERE lot_id = ? ORDER BY id",
-            (lot_id,),
+            f"SELECT r.*, {_PERSON_NAME.format(alias='r')} AS [by] FROM results r WHERE lot_id = ? AND id > ? "
+            "ORDER BY id",
+            (lot_id, after),
         )
         for r in rows:
             r.pop("by_person")
