@@ -160,6 +160,17 @@ class RecordOutcome:
 
 
 @dataclass(frozen=True, kw_only=True)
+class ResolvedUnit:
+    """A unit named by typed or scanned text (see ``Workflow.resolve_unit``)."""
+
+    unit: int
+    address: str
+    serial: str | None
+    typed: str
+    how: str  # "number", "address", "serial" or "code"
+
+
+@dataclass(frozen=True, kw_only=True)
 class _LotData:
     lot: Any
     state: str | None
@@ -1154,7 +1165,7 @@ class Workflow:
                 raise WorkflowError("lot", f"lot substitute: lot {data.lot.lot_id} is {_what(data.state)}; "
                                            "units are substituted after the draw and before the decision")
             structure = frame.structure_from_dict(data.lot.structure)
-            number, _typed = self._resolve_unit(structure, unit)
+            number, _typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             samples = self._class_samples(data)
             if not any(number in units for units in samples.values()):
                 shown = f"{number}" if _typed == str(number) else f"{_typed} (unit {number})"
@@ -1176,7 +1187,10 @@ class Workflow:
     # --- results -----------------------------------------------------------------------------------
 
     @staticmethod
-    def _resolve_unit(structure, unit: Any) -> tuple[int, str]:
+    def _resolve_unit(structure, unit: Any, lot_id: str | None = None) -> tuple[int, str]:
+        """(unit number, the text as entered) for a unit number, an address, a
+        manifest serial, or -- with ``lot_id`` -- a unit code scanned from this
+        lot's labels (``LOT:UNIT``, see ``inspector.sheets.codes``)."""
         from inspector import frame
 
         typed = str(unit).strip() if unit is not None else ""
@@ -1188,7 +1202,56 @@ class Workflow:
             message = str(exc)
             if not message.startswith("unit"):
                 message = f"unit: {message}"
-            raise WorkflowError("unit", message) from None
+            first = message
+        if lot_id is not None and ":" in typed:
+            from inspector.sheets.codes import UnitCodeError, parse_unit_code
+
+            try:
+                code = parse_unit_code(typed)
+            except UnitCodeError:
+                raise WorkflowError("unit", f"unit: {typed!r} is neither a unit of this lot nor a unit code "
+                                            "as printed on the labels") from None
+            if code.lot_id != lot_id:
+                raise WorkflowError("unit", f"unit code: {typed!r} belongs to lot {code.lot_id}, "
+                                            f"not to lot {lot_id}")
+            try:
+                return structure.check_unit(code.unit), typed
+            except frame.FrameError as exc:
+                raise WorkflowError("unit", f"unit code: {typed!r}: {exc}") from None
+        raise WorkflowError("unit", first)
+
+    def structure(self, lot_id: str):
+        """The lot's frame structure (levels, addresses), read from its record."""
+        from inspector import frame
+
+        with self.store.reading() as r:
+            lot = r.lot(_text(lot_id, "id", limit=100))
+        if lot is None:
+            raise WorkflowError("id", f"no lot {lot_id!r} is registered")
+        return frame.structure_from_dict(lot.structure)
+
+    def resolve_unit(self, lot_id: str, text: Any) -> ResolvedUnit:
+        """Which unit of the lot ``text`` names, without recording anything:
+        a unit number, an address, a manifest serial or a scanned unit code.
+        Raises WorkflowError naming the text when it is no unit of this lot.
+        (Whether the unit is in the sample is checked when it is recorded.)"""
+        return self.resolve_in(self.structure(lot_id), lot_id, text)
+
+    @classmethod
+    def resolve_in(cls, structure, lot_id: str, text: Any) -> ResolvedUnit:
+        """``resolve_unit`` on a structure already read (no store access), for
+        a bench that resolves every scan as it arrives."""
+        number, typed = cls._resolve_unit(structure, text, _text(lot_id, "id", limit=100))
+        address = structure.address_of(number)
+        if typed.isdigit():
+            how = "number"
+        elif address.serial is not None and address.serial == typed:
+            how = "serial"
+        elif ":" in typed and not typed.replace(" ", "").count("/"):
+            how = "code"
+        else:
+            how = "address"
+        return ResolvedUnit(unit=number, address=str(address), serial=address.serial, typed=typed, how=how)
 
     def record(self, lot_id: str, unit: Any, *, outcome: str, by: str, defect_class: str | None = None,
                defect: str | None = None, note: str | None = None) -> RecordOutcome:
@@ -1218,7 +1281,7 @@ class Workflow:
                 raise WorkflowError("lot", f"lot record: lot {lid} is {data.state}{how}; no more results can be "
                                            "added (a wrong entry is corrected with lot correct)")
             structure = frame.structure_from_dict(data.lot.structure)
-            number, typed = self._resolve_unit(structure, unit)
+            number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             samples = self._class_samples(data)
             holding = [k for k in data.plans if number in samples.get(k, ())]
             if not holding:
@@ -1295,7 +1358,7 @@ class Workflow:
             lid = data.lot.lot_id
             person = self._person(tx, by)
             structure = frame.structure_from_dict(data.lot.structure)
-            number, typed = self._resolve_unit(structure, unit)
+            number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             effective = self._effective(data.results)
             mine = {cls: r for (u, cls), r in effective.items() if u == number}
             if not mine:

@@ -7,7 +7,7 @@ from __future__ import annotations
 import asyncio
 import threading
 
-from conftest import burst, make_app, screen_text, settle
+from tui_support import burst, make_app, screen_text, settle
 
 from inspector.tui import demo
 from inspector.tui.screens import open_lot_screen

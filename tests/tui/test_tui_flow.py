@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import asyncio
 
-from conftest import burst, make_app, screen_text, settle, wait_for_screen
+from tui_support import burst, make_app, screen_text, settle, wait_for_screen
 
 LOT = "HP-2611-09"
 

@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import asyncio
 
-from conftest import make_app, screen_text, settle
+from tui_support import make_app, screen_text, settle
 
 from inspector.tui import demo
 from inspector.tui.screens import open_lot_screen

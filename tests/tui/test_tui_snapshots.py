@@ -5,7 +5,7 @@ Textual bump) with ``pytest tests/tui --snapshot-update``."""
 from __future__ import annotations
 
 import pytest
-from conftest import burst, make_app, settle
+from tui_support import burst, make_app, settle
 
 from inspector.tui import demo
 from inspector.tui.screens import open_lot_screen

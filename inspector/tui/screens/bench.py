@@ -226,7 +226,7 @@ class BenchScreen(LotScreen):
         from inspector.tui.lookup import lot_structure
 
         try:
-            structure = lot_structure(self.app.services.store, self.lot_id)
+            structure = lot_structure(self.workflow, self.lot_id)
         except Exception as exc:  # noqa: BLE001
             self.post_message(RecordRefused(one_line(exc)))
             return

@@ -152,7 +152,7 @@ class DrawScreen(LotScreen):
         from inspector.tui.lookup import lot_structure
 
         try:
-            levels = tuple(lot_structure(self.app.services.store, self.lot_id).container_levels)
+            levels = tuple(lot_structure(self.workflow, self.lot_id).container_levels)
         except Exception:  # noqa: BLE001 - without levels only the simple draw is offered
             levels = ()
         self.app.call_from_thread(self._set_levels, levels)
