@@ -6,6 +6,7 @@ import hashlib
 import subprocess
 import sys
 from datetime import datetime, timedelta, timezone
+from pathlib import Path
 
 import pytest
 
@@ -30,13 +31,14 @@ def test_another_process_gives_identical_bytes(data):
     here, _ = render_bytes("release", data)
     code = (
         "import hashlib, io, sys\n"
-        "sys.path.insert(0, 'tests/sheets')\n"
+        f"sys.path.insert(0, {str(Path(__file__).resolve().parent)!r})\n"
         "from sheets_support import render_bytes\n"
         "from inspector.sheets.demo import demo_sheet_data\n"
         "pdf, _ = render_bytes('release', demo_sheet_data())\n"
         "print(hashlib.sha256(pdf).hexdigest())\n"
     )
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120,
+                         cwd=Path(__file__).resolve().parents[2])
     assert out.returncode == 0, out.stderr
     assert out.stdout.strip() == hashlib.sha256(here).hexdigest()
 
