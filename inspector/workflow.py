@@ -406,7 +406,15 @@ class Workflow:
         return self.show(lot_id)
 
     def lots(self, *, state: str | None = None, supplier: str | None = None) -> list[dict]:
-        """Registered lots, optionally of one state and/or supplier."""
+        """Registered lots, optionally of one state and/or supplier.
+
+        Each lot carries its progress at the bench: ``sample_size`` (units
+        drawn), ``inspected`` (drawn units with a current result) and
+        ``nonconforming`` (units whose current result fails in some class),
+        all None before a draw with a plan. They come from the plans, the
+        draw and the result entries only (no estimate, no re-derivation, no
+        record hash), so an overview of many lots stays cheap.
+        """
         if state is not None and state not in STATES:
             raise WorkflowError("state", f"state: expected one of {', '.join(STATES)}, got {state!r}")
         with self.store.reading() as r:
@@ -423,8 +431,25 @@ class Workflow:
                     "received_on": lot.received_on,
                     "critical": lot.critical,
                     "decision": decisions[-1].decision if decisions else None,
+                    **self._progress(r, lot.lot_id),
                 })
             return out
+
+    def _progress(self, reader: Reader, lot_id: str) -> dict:
+        """Drawn, inspected and nonconforming units of one lot (None before a
+        draw with a plan). A unit with a result is never substituted, and
+        substitutes replace units one for one, so the draw's size is the
+        number of units to inspect and every unit with a result is one of them."""
+        none = {"sample_size": None, "inspected": None, "nonconforming": None}
+        if not reader.plans(lot_id):
+            return none
+        draws = reader.draws(lot_id)
+        if not draws:
+            return none
+        effective = self._effective(self._results(reader, lot_id))
+        inspected = {unit for unit, _cls in effective}
+        failed = {unit for (unit, _cls), res in effective.items() if res.outcome == "fail"}
+        return {"sample_size": len(draws[-1].units), "inspected": len(inspected), "nonconforming": len(failed)}
 
     # --- suppliers and switching --------------------------------------------------------------
     #

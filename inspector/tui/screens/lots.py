@@ -24,15 +24,6 @@ class LotsListed(Message):
         self.lots = lots
 
 
-class ProgressRead(Message):
-    """How far the bench has got with one lot."""
-
-    def __init__(self, lot_id: str, progress: str) -> None:
-        super().__init__()
-        self.lot_id = lot_id
-        self.progress = progress
-
-
 class DemoLoaded(Message):
     def __init__(self, lot_id: str | None, error: str | None = None) -> None:
         super().__init__()
@@ -40,14 +31,13 @@ class DemoLoaded(Message):
         self.error = error
 
 
-def progress_words(report: dict) -> str:
-    """Inspected of drawn, e.g. ``12/132``; ``—`` before the draw."""
-    classes = report.get("classes") or {}
-    if not report.get("draw") or not classes:
+def progress_words(lot: dict) -> str:
+    """Inspected of drawn, e.g. ``12/132``; ``—`` before the draw. Reads the
+    progress fields of :meth:`Workflow.lots`, so the overview needs no full
+    report per lot."""
+    if lot.get("sample_size") is None:
         return "—"
-    sample = len(report.get("sample_units") or [])
-    done = {r["unit"] for r in report.get("results", []) if r.get("current")}
-    return f"{len(done)}/{sample}"
+    return f"{lot['inspected']}/{lot['sample_size']}"
 
 
 class LotsScreen(Screen):
@@ -66,7 +56,6 @@ class LotsScreen(Screen):
     def __init__(self) -> None:
         super().__init__()
         self.lots: list[dict] = []
-        self.progress: dict[str, str] = {}
         self.loaded = False
 
     def compose(self) -> ComposeResult:
@@ -112,12 +101,6 @@ class LotsScreen(Screen):
             self.app.call_from_thread(self.query_one(Notice).say, "error", one_line(exc))
             return
         self.post_message(LotsListed(lots))
-        for item in lots:
-            try:
-                report = wf.show(item["id"])
-            except Exception:  # noqa: BLE001 - progress stays unknown
-                continue
-            self.post_message(ProgressRead(item["id"], progress_words(report)))
 
     def on_lots_listed(self, message: LotsListed) -> None:
         self.lots = list(reversed(message.lots))
@@ -133,21 +116,13 @@ class LotsScreen(Screen):
         self.fill_table()
         self.refresh_bindings()
 
-    def on_progress_read(self, message: ProgressRead) -> None:
-        self.progress[message.lot_id] = message.progress
-        table = self.query_one("#lots", DataTable)
-        try:
-            table.update_cell(message.lot_id, "done", message.progress)
-        except Exception:  # noqa: BLE001 - row filtered out
-            pass
-
     def fill_table(self) -> None:
         table = self.query_one("#lots", DataTable)
         words = self.query_one("#filter", Input).value.strip().lower()
         table.clear()
         for lot in self.lots:
             cells = [lot["id"], state_words(lot["state"]), lot["supplier"], lot["product"], str(lot["size"]),
-                     self.progress.get(lot["id"], "…"), decision_words(lot["decision"])]
+                     progress_words(lot), decision_words(lot["decision"])]
             if words and not any(words in str(c).lower() for c in cells):
                 continue
             table.add_row(*cells, key=lot["id"])
