@@ -1209,6 +1209,56 @@ class Workflow:
         return {"entry": entry, "lot": data.lot.lot_id, "unit": number, "substitute": new.substitute,
                 "address": str(structure.address_of(new.substitute)), "reason": reason}
 
+    # --- pulled marks ---------------------------------------------------------------------------
+    #
+    # While the sample is pulled from the load, each drawn unit is marked as
+    # pulled (or the mark taken back). A mark is an event entry like any other:
+    # append-only, so taking a mark back is a new entry and the latest entry
+    # for a unit is its current mark.
+
+    _PULLED_KIND = "pulled mark"
+
+    def mark_pulled(self, lot_id: str, unit: Any, *, by: str | None = None, pulled: bool = True) -> dict:
+        """Record that a drawn unit was pulled from the load (``pulled=False``
+        takes the mark back). Only units to inspect of a drawn or inspecting
+        lot; ``by`` names a registered person when given."""
+        from inspector import frame
+
+        if not isinstance(pulled, bool):
+            raise WorkflowError("pulled", f"pulled: expected true or false, got {pulled!r}")
+        with self.store.transaction() as tx:
+            data = self._load(tx, lot_id, "mark pulled")
+            person = self._person(tx, by) if by is not None else None
+            if data.state not in ("drawn", "inspecting"):
+                raise WorkflowError("lot", f"mark pulled: lot {data.lot.lot_id} is {_what(data.state)}; "
+                                           "units are marked as pulled after the draw and before the decision")
+            structure = frame.structure_from_dict(data.lot.structure)
+            number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
+            if not any(number in units for units in self._class_samples(data).values()):
+                shown = f"{number}" if typed == str(number) else f"{typed} (unit {number})"
+                raise WorkflowError("unit", f"unit: {shown} is not among the units to inspect")
+            entry = tx.add_event(lot_id=data.lot.lot_id, kind=self._PULLED_KIND,
+                                 detail={"unit": number, "pulled": pulled},
+                                 by_person=person.id if person is not None else None)
+        return {"entry": entry, "lot": data.lot.lot_id, "unit": number, "pulled": pulled,
+                "address": str(structure.address_of(number)), "by": person.name if person is not None else None}
+
+    def pulled_marks(self, lot_id: str) -> dict:
+        """The current pulled marks of a lot: the latest mark entry per unit
+        wins. ``pulled`` lists the units marked as pulled now (in unit order),
+        ``marks`` the current mark of every unit ever marked."""
+        with self.store.reading() as r:
+            lot_id = _text(lot_id, "id", limit=100)
+            if r.lot(lot_id) is None:
+                raise WorkflowError("id", f"pulled marks: no lot {lot_id!r} is registered")
+            events = [e for e in r.events(lot_id) if e.kind == self._PULLED_KIND]
+        latest: dict[int, Any] = {}
+        for event in events:  # in entry order: a later mark replaces an earlier one
+            latest[event.detail["unit"]] = event
+        marks = [{"unit": u, "pulled": e.detail["pulled"], "entry": e.id, "by": e.by, "at": e.recorded_at}
+                 for u, e in sorted(latest.items())]
+        return {"lot": lot_id, "pulled": [m["unit"] for m in marks if m["pulled"]], "marks": marks}
+
     # --- results -----------------------------------------------------------------------------------
 
     @staticmethod

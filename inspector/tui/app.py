@@ -3,7 +3,7 @@
 Screens call the workflow for everything that changes a lot; slow calls
 (store writes, plan design, secret checks) run in thread workers and report
 back with past-tense messages. The app keeps only what one run of it needs:
-who is at the bench and which units were marked as pulled.
+who is at the bench (pulled marks are recorded with the lot).
 """
 
 from __future__ import annotations
@@ -72,7 +72,6 @@ class InspectorApp(App):
         self.output_folder = output_folder if output_folder is not None else os.getcwd()
         self.workflow = services.workflow
         self.bench_person = bench_person
-        self.pulled: dict[str, set[int]] = {}
         # Every write holds this lock; quitting waits for it, so an entry
         # that was keyed is committed (or refused) before the app exits.
         self.write_lock = threading.Lock()

@@ -28,10 +28,18 @@ class SampleDrawn(Message):
 
 
 class PickListRead(Message):
-    def __init__(self, picks: dict, levels: tuple[str, ...]) -> None:
+    def __init__(self, picks: dict, pulled: set[int]) -> None:
         super().__init__()
         self.picks = picks
-        self.levels = levels
+        self.pulled = pulled
+
+
+class PulledMarked(Message):
+    """A pulled mark (or its taking back) was committed to the store."""
+
+    def __init__(self, result: dict) -> None:
+        super().__init__()
+        self.result = result
 
 
 class UnitSubstituted(Message):
@@ -63,6 +71,7 @@ class DrawScreen(LotScreen):
         super().__init__(lot_id, **kwargs)
         self.levels: tuple[str, ...] = ()
         self.picks: dict | None = None
+        self.pulled: set[int] = set()  # as recorded: read from the store, updated once a mark is saved
         self.busy = False
 
     def compose(self) -> ComposeResult:
@@ -165,18 +174,20 @@ class DrawScreen(LotScreen):
     def _pick_list(self) -> None:
         try:
             picks = self.workflow.pick_list(self.lot_id)
+            pulled = set(self.workflow.pulled_marks(self.lot_id)["pulled"])
         except Exception as exc:  # noqa: BLE001
             self.post_message(DrawRefused(None, one_line(exc)))
         else:
-            self.post_message(PickListRead(picks, ()))
+            self.post_message(PickListRead(picks, pulled))
 
     def on_pick_list_read(self, message: PickListRead) -> None:
         self.picks = message.picks
+        self.pulled = message.pulled
         self.fill_picks()
 
     def fill_picks(self) -> None:
         table = self.query_one("#picks", DataTable)
-        pulled = self.app.pulled.setdefault(self.lot_id, set())
+        pulled = self.pulled
         row = table.cursor_row
         table.clear()
         total = 0
@@ -204,10 +215,11 @@ class DrawScreen(LotScreen):
                         if unit in t.get("open_units", ()) or (unit, c) in done)
 
     def show_pulled(self) -> None:
-        pulled = self.app.pulled.get(self.lot_id, set())
-        count = sum(1 for s in self.picks["stops"] for line in s["units"] if line["unit"] in pulled)
+        if self.picks is None:
+            return
+        count = sum(1 for s in self.picks["stops"] for line in s["units"] if line["unit"] in self.pulled)
         self.query_one("#pulled", Static).update(
-            f"pulled {count} of {self.total} (kept until the app closes) · walk the list top to bottom")
+            f"pulled {count} of {self.total} (marks recorded with the lot) · walk the list top to bottom")
 
     # --- actions --------------------------------------------------------------------------------------
 
@@ -221,13 +233,38 @@ class DrawScreen(LotScreen):
         unit = self.selected_unit()
         if unit is None:
             return
-        pulled = self.app.pulled.setdefault(self.lot_id, set())
-        pulled.symmetric_difference_update({unit})
+        pulled = unit not in self.pulled
         table = self.query_one("#picks", DataTable)
-        table.update_cell(str(unit), "pulled", "[✓]" if unit in pulled else "[ ]")
+        # the box changes only once the store has the mark; "…" until then
+        table.update_cell(str(unit), "pulled", "[…]")
         if table.cursor_row < table.row_count - 1:
             table.move_cursor(row=table.cursor_row + 1)
+        self._mark_pulled(unit, pulled, self.app.current_inspector())
+
+    @work(thread=True, group="pulled")
+    def _mark_pulled(self, unit: int, pulled: bool, who: str | None) -> None:
+        try:
+            with self.app.write_lock:
+                result = self.workflow.mark_pulled(self.lot_id, unit, by=who, pulled=pulled)
+        except Exception as exc:  # noqa: BLE001
+            self.post_message(DrawRefused(None, one_line(exc)))
+            self.app.call_from_thread(self._show_mark, unit)
+        else:
+            self.post_message(PulledMarked(result))
+
+    def _show_mark(self, unit: int) -> None:
+        try:
+            self.query_one("#picks", DataTable).update_cell(str(unit), "pulled",
+                                                            "[✓]" if unit in self.pulled else "[ ]")
+        except Exception:  # noqa: BLE001 - the row left the list (a substitution)
+            pass
         self.show_pulled()
+
+    def on_pulled_marked(self, message: PulledMarked) -> None:
+        r = message.result
+        (self.pulled.add if r["pulled"] else self.pulled.discard)(r["unit"])
+        # the box itself is the confirmation: it shows a mark only once the store has it
+        self._show_mark(r["unit"])
 
     def action_draw(self) -> None:
         if self.busy:
