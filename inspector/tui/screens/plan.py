@@ -1,8 +1,10 @@
 """Plan: what a sampling plan really risks at this lot's size.
 
-Two routes: design from AQL, RQL and the two risks (smallest plan meeting
-both, exact hypergeometric at the actual lot size), or the code-letter
-tables (inspection level + AQL -> plan) with that plan's exact risks. The OC
+Three routes: design from AQL, RQL and the two risks (smallest plan meeting
+both, exact hypergeometric at the actual lot size), the code-letter tables
+(inspection level + AQL -> plan) with that plan's exact risks, or n and Ac
+typed as a contract states them, with the plan's own quality levels (where
+Pa is 0.95 and 0.10) and its risks at this lot size. The OC
 curve is drawn in the terminal with AQL and RQL marked; Pa at both, AOQL and
 ATI are shown. F8 keeps the plan on view for comparison, so two plans sit
 side by side. Every change of an input recomputes in a worker, which posts
@@ -38,7 +40,7 @@ SEVERITIES = ("normal", "tightened")
 class PlanFigures:
     """One plan and what it risks at the lot size (probabilities as fractions)."""
 
-    route: str  # "risk" or "table"
+    route: str  # "risk", "table" or "typed"
     label: str
     lot_size: int
     sample_size: int
@@ -107,6 +109,52 @@ def _curve(N: int, n: int, c: int, x_max: float) -> tuple[Curve, Any]:
     return Curve(fraction=np.asarray(oc.fraction, float), pa=np.asarray(oc.pa, float)), oc
 
 
+def _whole(text: str, field: str, low: int, high: int, what: str) -> int:
+    """A whole number from ``low`` to ``high`` typed in ``field``."""
+    words = text.strip().replace("_", "").replace(",", "")
+    if not words.isdigit() or not low <= int(words) <= high:
+        raise ValueError(f"{field}: expected a whole number from {low} to {high:,} ({what}), got {text!r}")
+    return int(words)
+
+
+# Where a typed plan's own quality levels sit: the largest lot quality
+# accepted at least 95 % of the time and the smallest accepted at most 10 %
+# of the time (the same levels the workflow records with a typed plan).
+TYPED_PA_HIGH = Fraction(95, 100)
+TYPED_PA_LOW = Fraction(10, 100)
+
+
+def compute_typed(inputs: dict) -> PlanFigures:
+    """The figures of a plan typed as n and Ac (pure: called in a worker).
+
+    Raises ValueError naming ``n`` or ``Ac``.
+    """
+    from inspector.stats.plans import aoql_lot, aql_lot, oc_single, rql_lot
+
+    N = inputs["lot_size"]
+    n = _whole(inputs["typed_n"], "n", 1, N, "at most the lot size")
+    c = _whole(inputs["typed_c"], "Ac", 0, n - 1, f"below n = {n}")
+    d_aql = aql_lot(N, n, c, TYPED_PA_HIGH)
+    d_rql = rql_lot(N, n, c, TYPED_PA_LOW)
+    at = [d_aql] + ([d_rql] if d_rql is not None else [])
+    oc = oc_single(N, n, c, np.asarray(at, np.int64))
+    aql = d_aql / N
+    rql = None if d_rql is None else d_rql / N
+    aoql, aoql_at = aoql_lot(N, n, c)
+    x_max = min(1.0, max(rql or 0, aql * 4, 0.01) * 1.8)
+    curve, _oc = _curve(N, n, c, x_max)
+    levels = f"Pa >= 0.95 up to {d_aql:,} nonconforming ({aql * 100:.2f} %)"
+    if d_rql is not None:
+        levels += f", Pa <= 0.10 from {d_rql:,} ({rql * 100:.2f} %)"
+    return PlanFigures(
+        route="typed", label=f"typed n={n} Ac={c}", lot_size=N, sample_size=n, accept=c, reject=c + 1,
+        aql=aql, rql=rql, pa_at_aql=float(oc.pa[0]), pa_at_rql=float(oc.pa[1]) if d_rql is not None else None,
+        aoql=aoql, aoql_at=int(aoql_at), ati_at_aql=float(oc.ati[0]),
+        ati_at_rql=float(oc.ati[1]) if d_rql is not None else None, curve=curve, inputs=dict(inputs),
+        notes=(f"the plan's own levels: {levels}",),
+    )
+
+
 def compute_plan(inputs: dict) -> PlanFigures:
     """Compute the plan for the inputs on view (pure: called in a worker).
 
@@ -115,6 +163,8 @@ def compute_plan(inputs: dict) -> PlanFigures:
     from inspector.stats.design import defectives_at, design_plan
     from inspector.stats.plans import aoql_lot, oc_single
 
+    if inputs["route"] == "typed":
+        return compute_typed(inputs)
     N = inputs["lot_size"]
     beta = _decimal(inputs["consumer_risk"], "consumer risk")
     if inputs["route"] == "risk":
@@ -187,6 +237,9 @@ def figures_table(on_view: PlanFigures | None, kept: PlanFigures | None) -> Text
         ("ATI at RQL", lambda f: _units(f.ati_at_rql)),
         ("RQL mark", lambda f: _pct(f.rql)),
     ]
+    if any(f is not None and f.route == "typed" for f in (on_view, kept)):
+        # a typed plan's AQL is not an input: show where its Pa is 0.95
+        rows.insert(-1, ("AQL mark", lambda f: _pct(f.aql)))
     text = Text(no_wrap=True, overflow="ellipsis")
     text.append(f"{'':<11}{'on view ⠿':>10}{'kept ·':>10}\n" if kept else f"{'':<11}{'on view ⠿':>10}\n",
                 style="bold")
@@ -208,7 +261,7 @@ class PlanScreen(LotScreen):
     BINDINGS = [
         Binding("ctrl+s", "adopt", "adopt for class", priority=True),
         Binding("ctrl+k", "next_class", "class", priority=True),
-        Binding("ctrl+t", "route", "risk/table", priority=True),
+        Binding("ctrl+t", "route", "risk/table/typed", priority=True),
         Binding("f8", "keep", "keep to compare", priority=True),
         Binding("f9", "unkeep", "drop compared", priority=True),
     ]
@@ -245,6 +298,12 @@ class PlanScreen(LotScreen):
             yield Input("1.0", id="table_aql", classes="num")
             yield Select([(v, v) for v in SEVERITIES], value="normal", allow_blank=False, compact=True,
                          id="severity")
+        with Horizontal(id="row-typed", classes="inputs"):
+            yield Label("n")
+            yield Input("50", id="typed_n", classes="num")
+            yield Label("Ac")
+            yield Input("1", id="typed_c", classes="num")
+            yield Static("", id="typed-error")
         with Horizontal(id="body"):
             yield OCPlot(id="oc")
             yield Static("", id="figures")
@@ -295,11 +354,14 @@ class PlanScreen(LotScreen):
     # --- inputs ---------------------------------------------------------------------------------------
 
     def show_route(self) -> None:
-        self.query_one("#row-risk").display = True
+        self.query_one("#row-risk").display = self.route != "typed"
         self.query_one("#row-table").display = self.route == "table"
-        self.query_one("#route-words", Static).update(
-            "route: design from AQL/RQL (ctrl+t: tables)" if self.route == "risk"
-            else f"route: table, {self.severity_in_force} in force (ctrl+t: design)")
+        self.query_one("#row-typed").display = self.route == "typed"
+        self.query_one("#route-words", Static).update({
+            "risk": "route: design from AQL/RQL (ctrl+t: tables)",
+            "table": f"route: table, {self.severity_in_force} in force (ctrl+t: typed n, Ac)",
+            "typed": "route: n and Ac as typed (ctrl+t: design)",
+        }[self.route])
 
     def inputs(self) -> dict:
         def val(i: str) -> str:
@@ -310,6 +372,7 @@ class PlanScreen(LotScreen):
             "lot_size": self.report["size"] if self.report else None,
             "aql": val("aql"), "rql": val("rql"), "producer_risk": val("producer_risk"),
             "consumer_risk": val("consumer_risk"), "table_aql": val("table_aql"),
+            "typed_n": val("typed_n"), "typed_c": val("typed_c"),
             "level": self.query_one("#level", Select).value,
             "severity": self.query_one("#severity", Select).value,
         }
@@ -349,6 +412,7 @@ class PlanScreen(LotScreen):
         if message.generation != self.generation:
             return  # inputs changed since; a newer result is on its way
         self.on_view = message.figures
+        self.query_one("#typed-error", Static).update("")
         self.draw_figures()
         notes = "; ".join(message.figures.notes[:1])
         if self.notice().kind not in ("saved", "warning"):  # a "saved" stays until the next action
@@ -359,6 +423,9 @@ class PlanScreen(LotScreen):
             return
         self.on_view = None
         self.draw_figures()
+        # a bad n or Ac is shown beside the two fields as well as in the notice
+        self.query_one("#typed-error", Static).update(
+            escape(message.error) if self.route == "typed" and message.field in ("n", "Ac") else "")
         self.notice().say("error", message.error)
 
     def draw_figures(self) -> None:
@@ -375,7 +442,7 @@ class PlanScreen(LotScreen):
 
     def action_route(self) -> None:
         self.notice().clear()
-        self.route = "table" if self.route == "risk" else "risk"
+        self.route = {"risk": "table", "table": "typed", "typed": "risk"}[self.route]
         self.show_route()
         self.recompute()
 
@@ -401,6 +468,8 @@ class PlanScreen(LotScreen):
         if f.route == "risk":
             kwargs = dict(defect_class=cls, aql=f.inputs["aql"], rql=f.inputs["rql"],
                           producer_risk=f.inputs["producer_risk"], consumer_risk=f.inputs["consumer_risk"])
+        elif f.route == "typed":
+            kwargs = dict(defect_class=cls, sample=f.sample_size, accept=f.accept)
         else:
             kwargs = dict(defect_class=cls, table=True, aql=f.inputs["table_aql"], level=f.inputs["level"])
             if f.inputs["severity"] != self.severity_in_force:
