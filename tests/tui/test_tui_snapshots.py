@@ -39,9 +39,18 @@ def other_screen(make, then=None):
 
 async def _compare_two_plans(pilot):
     await pilot.press("f8")  # keep the designed plan, then look at a tighter RQL beside it
-    pilot.app.screen.query_one("#rql").value = "3"
-    await pilot.pause(0.35)  # past the pause in typing the screen waits for before recomputing
-    await settle(pilot)
+    screen = pilot.app.screen
+    screen.query_one("#rql").value = "3"
+    # The screen waits for a pause in typing before it recomputes; on a busy
+    # machine that can take longer than any fixed sleep, so wait for the
+    # figures of the new input to be on view (at most 10 s).
+    for _ in range(200):
+        await pilot.pause(0.05)
+        await settle(pilot)
+        if screen.on_view is not None and screen.on_view.rql == pytest.approx(0.03):
+            break
+    else:
+        raise AssertionError("the plan screen did not recompute for RQL 3 %")
 
 
 async def _mark_two_pulled(pilot):
