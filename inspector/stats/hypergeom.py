@@ -415,42 +415,50 @@ def _series(start, stop, down, b, n, D):
 
     Downward the ratio is P(k-1)/P(k) = k (b + k) / ((n+1-k)(D+1-k));
     upward it is P(k+1)/P(k) = (D - k)(n - k) / ((k + 1)(b + k + 1)), with
-    b = N - D - n. Terms are formed a chunk of steps at a time by a
-    cumulative product (one numpy call per chunk, not per step); the walk
-    ends for an element once its terms fall below machine epsilon times its
-    running total or its support ends (the ratio there is 0).
+    b = N - D - n. Elements walking down and up are handled apart, each with
+    its own ratio (no per-element selection between the two formulas).
     """
     total = np.ones(start.shape)
-    term = np.ones(start.shape)
-    k0 = start.copy()
-    step = np.where(down, -1.0, 1.0)
+    for step, mask in ((-1.0, down), (1.0, ~down)):
+        idx = np.nonzero(mask)[0]
+        if idx.size:
+            total[idx] = _walk(start[idx], stop[idx], step, b[idx], n[idx], D[idx])
+    return total
+
+
+def _walk(k0, stop, step, b, n, D):
+    """``_series`` for elements all walking in one direction.
+
+    Terms are formed a chunk of steps at a time by a cumulative product (one
+    numpy call per chunk, not per step); an element's walk ends once its
+    terms fall below machine epsilon times its running total, or at the end
+    of its support (past it the ratio is set to 0).
+    """
+    total = np.ones(k0.shape)
+    term = np.ones(k0.shape)
+    k0 = k0.copy()
     active = np.nonzero((k0 - stop) * step < 0)[0]
     while active.size:
-        rows = int(min(_CHUNK, np.max(np.abs(stop[active] - k0[active]))))
-        j = np.arange(rows, dtype=float)[:, None]
-        ka = k0[active] + step[active] * j  # k at which each ratio is taken
-        ba, na, Da, dn = b[active], n[active], D[active], down[active]
+        ka0, sa = k0[active], stop[active]
+        rows = int(min(_CHUNK, np.max(np.abs(sa - ka0))))
+        ka = ka0 + (step * np.arange(rows, dtype=float))[:, None]  # k at which each ratio is taken
+        ba, na, Da = b[active], n[active], D[active]
         with np.errstate(divide="ignore", invalid="ignore"):
-            if dn.all():
+            if step < 0:
                 r = ka * (ba + ka) / ((na + 1.0 - ka) * (Da + 1.0 - ka))
-            elif not dn.any():
-                r = (Da - ka) * (na - ka) / ((ka + 1.0) * (ba + ka + 1.0))
+                r[ka <= sa] = 0.0
             else:
-                r = np.where(
-                    dn,
-                    ka * (ba + ka) / ((na + 1.0 - ka) * (Da + 1.0 - ka)),
-                    (Da - ka) * (na - ka) / ((ka + 1.0) * (ba + ka + 1.0)),
-                )
-        # past the end of the support the ratio must be 0, not a stray value
-        past = (ka - stop[active]) * step[active] >= 0
-        r = np.where(past | ~np.isfinite(r), 0.0, r)
-        terms = np.cumprod(r, axis=0) * term[active]
+                r = (Da - ka) * (na - ka) / ((ka + 1.0) * (ba + ka + 1.0))
+                r[ka >= sa] = 0.0
+        terms = np.cumprod(r, axis=0)
+        terms *= term[active]
         s = total[active] + terms.sum(axis=0)
         total[active] = s
         last = terms[-1]
         term[active] = last
-        k0[active] = k0[active] + step[active] * rows
-        keep = (last >= _EPS * s) & ((k0[active] - stop[active]) * step[active] < 0)
+        k_next = ka0 + step * rows
+        k0[active] = k_next
+        keep = (last >= _EPS * s) & ((k_next - sa) * step < 0)
         active = active[keep]
     return total
 
