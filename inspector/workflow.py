@@ -817,13 +817,7 @@ class Workflow:
             item = {
                 "sample_size": t.inspected,
                 "found": t.nonconforming,
-                "confidence": e.confidence,
-                "point_defectives": e.point_defectives,
-                "lower_defectives": e.lower_defectives,
-                "upper_defectives": e.upper_defectives,
-                "upper_bound_defectives": e.upper_bound_defectives,
-                "point_fraction": e.point_fraction,
-                "upper_bound_fraction": e.upper_bound_fraction,
+                **e.bounds(),
                 "curtailed": curtailed and not t.complete,
                 "label": CURTAILED_LABEL if curtailed and not t.complete else None,
             }

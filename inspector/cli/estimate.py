@@ -55,15 +55,7 @@ def _estimate(args) -> int:
         "lot_size": N,
         "sample_size": n,
         "found": x,
-        "confidence": e.confidence,
-        "point_defectives": e.point_defectives,
-        "lower_defectives": e.lower_defectives,
-        "upper_defectives": e.upper_defectives,
-        "upper_bound_defectives": e.upper_bound_defectives,
-        "point_fraction": e.point_fraction,
-        "lower_fraction": e.lower_fraction,
-        "upper_fraction": e.upper_fraction,
-        "upper_bound_fraction": e.upper_bound_fraction,
+        **e.bounds(),
     }
     ev = None
     if args.aql is not None:

@@ -64,6 +64,21 @@ class Estimate:
     def upper_bound_fraction(self) -> float:
         return self.upper_bound_defectives / self.lot_size
 
+    def bounds(self) -> dict:
+        """The confidence, the counts and their fractions of the lot, JSON-ready
+        (the keys the CLI and the lot record use)."""
+        return {
+            "confidence": self.confidence,
+            "point_defectives": self.point_defectives,
+            "lower_defectives": self.lower_defectives,
+            "upper_defectives": self.upper_defectives,
+            "upper_bound_defectives": self.upper_bound_defectives,
+            "point_fraction": self.point_fraction,
+            "lower_fraction": self.lower_fraction,
+            "upper_fraction": self.upper_fraction,
+            "upper_bound_fraction": self.upper_bound_fraction,
+        }
+
 
 @dataclass(frozen=True, kw_only=True)
 class Evidence:
