@@ -18,14 +18,11 @@ HP-2612-01 ...; inspector Ines Marlowe.
 
 from __future__ import annotations
 
-import io
 import json
 import sqlite3
-import sys
 
 import pytest
 
-from inspector.cli import main
 from inspector.services import build_services
 
 SUPPLIER = "Harrowgate Preserves"
@@ -39,18 +36,8 @@ def lot_id(k: int) -> str:
 
 
 @pytest.fixture
-def cli(tmp_path, monkeypatch, capsys):
-    db = tmp_path / "x.db"
-    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path / "xdg"))
-    monkeypatch.delenv("INSPECTOR_DB", raising=False)
-
-    def run(*args, stdin=""):
-        monkeypatch.setattr(sys, "stdin", io.StringIO(stdin))
-        code = main(["--db", str(db), *args])
-        captured = capsys.readouterr()
-        return code, captured.out, captured.err
-
-    run.db = db
+def cli(cli_on, tmp_path):
+    run = cli_on("x.db")
     ok_json(run("person", "add", INSPECTOR, "--role", "inspector", "--secret-stdin", "--json",
                 stdin=SECRET + "\n"))
     yield run

@@ -8,14 +8,11 @@ practice -- while codes such as 000123 are written exactly as typed.
 from __future__ import annotations
 
 import csv
-import io
 import json
 import sqlite3
-import sys
 
 import pytest
 
-from inspector.cli import main
 
 LOT = "000123"  # a lot code with leading zeros, as some suppliers number them
 SECRETS = {"Ines Marlowe": "kestrel-marmalade-0417", "Tomasz Quayle": "quince-ledger-9931"}
@@ -26,20 +23,8 @@ DANGEROUS = ["=SUM(A1:A9)", "+44 1632 960123", "-3 g underfill", "@HYPERLINK(\"h
 
 
 @pytest.fixture
-def cli(tmp_path, monkeypatch, capsys):
-    db = tmp_path / "inspector.db"
-    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path / "xdg"))
-    monkeypatch.delenv("INSPECTOR_DB", raising=False)
-
-    def run(*args, stdin=""):
-        monkeypatch.setattr(sys, "stdin", io.StringIO(stdin))
-        code = main(["--db", str(db), *args])
-        captured = capsys.readouterr()
-        assert "Traceback" not in captured.err
-        return code, captured.out, captured.err
-
-    run.db = db
-    return run
+def cli(cli_on):
+    return cli_on("inspector.db", no_traceback=True)
 
 
 def ok(result):

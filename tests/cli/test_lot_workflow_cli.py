@@ -7,10 +7,8 @@ Marlowe and Oskar Penhallow, approver Tomasz Quayle.
 
 from __future__ import annotations
 
-import io
 import json
 import sqlite3
-import sys
 
 import pytest
 
@@ -22,20 +20,8 @@ SECRETS = {"Ines Marlowe": "kestrel-marmalade-0417", "Oskar Penhallow": "harbour
 
 
 @pytest.fixture
-def cli(tmp_path, monkeypatch, capsys):
-    db = tmp_path / "inspector.db"
-    # never touch the user's real store, whatever the test does
-    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path / "xdg"))
-    monkeypatch.delenv("INSPECTOR_DB", raising=False)
-
-    def run(*args, stdin=""):
-        monkeypatch.setattr(sys, "stdin", io.StringIO(stdin))
-        code = main(["--db", str(db), *args])
-        captured = capsys.readouterr()
-        return code, captured.out, captured.err
-
-    run.db = db
-    return run
+def cli(cli_on):
+    return cli_on("inspector.db")
 
 
 def entries(db) -> int:
