@@ -748,7 +748,6 @@ class _Builder:
         return self.heading(section) + [self.grid(section, rows, row_heights=[9 * mm] * len(rows), extra_style=style)]
 
     def _plan_value(self, plan: SheetPlan, name: str, style: str):
-        N = plan.lot_size
         if name == "class":
             return Paragraph(f"<b>{markup(fmt.CLASS_NAMES[plan.defect_class])}</b>", self.st["cell"])
         if name == "source":

@@ -11,7 +11,7 @@ import sqlite3
 from datetime import datetime, timedelta, timezone
 from pathlib import Path
 
-from inspector.records import CONTENT_TABLES, open_store
+from inspector.records import CONTENT_TABLES
 
 INES_SECRET = "kestrel-marmalade-0417"
 TOMASZ_SECRET = "quince-ledger-9931"

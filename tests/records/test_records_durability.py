@@ -8,7 +8,6 @@ action may be half-written, and the chain must verify.
 
 from __future__ import annotations
 
-import json
 import os
 import random
 import signal

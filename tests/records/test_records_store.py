@@ -3,7 +3,6 @@ transactions."""
 
 from __future__ import annotations
 
-import sqlite3
 from datetime import datetime
 
 import pytest

@@ -23,7 +23,6 @@ from inspector.stats.tables import (
     CONFIRMED,
     INFERRED,
     LETTERS,
-    Arrow,
     NotGiven,
     Plan,
     TableError,

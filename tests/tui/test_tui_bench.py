@@ -159,7 +159,7 @@ def test_a_correction_asks_for_a_reason_and_keeps_the_original(seeded_services):
             await settle(pilot)
             shown = screen_text(app)
             assert f"corrects {original['entry']} (was pass): cap was loose" in shown
-            assert f"corrected by" in shown
+            assert "corrected by" in shown
         results = results_of(wf)
         assert any(r["entry"] == original["entry"] and r["outcome"] == "pass" and not r["current"] for r in results)
         fix = results[-1]

@@ -339,7 +339,6 @@ class BenchScreen(LotScreen):
             if s is None or self.pending:
                 return False
             if self.correcting:
-                outcome = parameters[0]
                 cls = parameters[1] if len(parameters) > 1 else None
                 return cls is None or cls in self.holding(s.unit)
             open_ = self.open_classes(s.unit)

@@ -135,7 +135,6 @@ class DrawScreen(LotScreen):
             table = self.query_one("#picks", DataTable)
             table.display = True
             table.focus()
-            seed_words = "generated and recorded" if draw.get("seed_generated") else "as typed"
             lines = [f"drawn {draw['sample_size']} units · {draw['method']} · seed {draw['seed']} · "
                      f"algorithm {draw['algorithm']} · entry {draw['entry']}"]
             if draw.get("note"):
