@@ -293,6 +293,19 @@ class Workflow:
         # numbered in commit order, so later reads fetch only newer entries:
         # recording at a bench with thousands of results stays fast.
         self._results_seen: dict[str, tuple] = {}
+        self._structures: dict[tuple[str, int], Any] = {}
+
+    def _structure_of(self, lot) -> Any:
+        """The lot's frame structure, built once per lot: a registered lot's
+        structure never changes, and rebuilding a large manifest (200,000
+        serials) on every entry at the bench would cost tens of ms."""
+        from inspector import frame
+
+        key = (lot.lot_id, lot.id)
+        structure = self._structures.get(key)
+        if structure is None:
+            structure = self._structures[key] = frame.structure_from_dict(lot.structure)
+        return structure
 
     def _results(self, reader: Reader, lot_id: str) -> list:
         seen = self._results_seen.get(lot_id, ())
@@ -1088,7 +1101,7 @@ class Workflow:
         with self.store.reading() as r:
             data = self._load(r, lot_id, "lot draw")
         self._check_drawable(data)
-        structure = frame.structure_from_dict(data.lot.structure)
+        structure = self._structure_of(data.lot)
         n = max(p.sample_size for p in data.plans.values())
         try:
             result = frame.draw(structure, n, method=method, seed=seed, by=level, containers=containers)
@@ -1145,7 +1158,7 @@ class Workflow:
             data = self._load(r, lot_id, "pick list")
         if data.draw is None:
             raise WorkflowError("lot", f"pick list: lot {data.lot.lot_id} is not drawn yet")
-        structure = frame.structure_from_dict(data.lot.structure)
+        structure = self._structure_of(data.lot)
         picks = frame.pick_list(structure, self._frame_draw(data))
         return {
             "lot": data.lot.lot_id,
@@ -1183,7 +1196,7 @@ class Workflow:
             if data.state not in ("drawn", "inspecting"):
                 raise WorkflowError("lot", f"lot substitute: lot {data.lot.lot_id} is {_what(data.state)}; "
                                            "units are substituted after the draw and before the decision")
-            structure = frame.structure_from_dict(data.lot.structure)
+            structure = self._structure_of(data.lot)
             number, _typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             samples = self._class_samples(data)
             if not any(number in units for units in samples.values()):
@@ -1216,8 +1229,6 @@ class Workflow:
         """Record that a drawn unit was pulled from the load (``pulled=False``
         takes the mark back). Only units to inspect of a drawn or inspecting
         lot; ``by`` names a registered person when given."""
-        from inspector import frame
-
         if not isinstance(pulled, bool):
             raise WorkflowError("pulled", f"pulled: expected true or false, got {pulled!r}")
         with self.store.transaction() as tx:
@@ -1226,7 +1237,7 @@ class Workflow:
             if data.state not in ("drawn", "inspecting"):
                 raise WorkflowError("lot", f"mark pulled: lot {data.lot.lot_id} is {_what(data.state)}; "
                                            "units are marked as pulled after the draw and before the decision")
-            structure = frame.structure_from_dict(data.lot.structure)
+            structure = self._structure_of(data.lot)
             number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             if not any(number in units for units in self._class_samples(data).values()):
                 shown = f"{number}" if typed == str(number) else f"{typed} (unit {number})"
@@ -1291,13 +1302,11 @@ class Workflow:
 
     def structure(self, lot_id: str):
         """The lot's frame structure (levels, addresses), read from its record."""
-        from inspector import frame
-
         with self.store.reading() as r:
             lot = r.lot(_text(lot_id, "id", limit=100))
         if lot is None:
             raise WorkflowError("id", f"no lot {lot_id!r} is registered")
-        return frame.structure_from_dict(lot.structure)
+        return self._structure_of(lot)
 
     def resolve_unit(self, lot_id: str, text: Any) -> ResolvedUnit:
         """Which unit of the lot ``text`` names, without recording anything:
@@ -1330,8 +1339,6 @@ class Workflow:
         When this result brings a class to its rejection number the lot is
         decided (rejected) in the same transaction.
         """
-        from inspector import frame
-
         if outcome not in ("pass", "fail"):
             raise WorkflowError("outcome", f"outcome: expected pass or fail, got {outcome!r}")
         if defect_class is not None and defect_class not in CLASSES:
@@ -1349,7 +1356,7 @@ class Workflow:
                 how = f" ({last.decision}{', early' if last and last.curtailed else ''})" if last else ""
                 raise WorkflowError("lot", f"lot record: lot {lid} is {data.state}{how}; no more results can be "
                                            "added (a wrong entry is corrected with lot correct)")
-            structure = frame.structure_from_dict(data.lot.structure)
+            structure = self._structure_of(data.lot)
             number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             samples = self._class_samples(data)
             holding = [k for k in data.plans if number in samples.get(k, ())]
@@ -1413,8 +1420,6 @@ class Workflow:
         "changed since signed". A correction that withdraws an early
         rejection returns the lot to inspecting.
         """
-        from inspector import frame
-
         if outcome not in ("pass", "fail"):
             raise WorkflowError("outcome", f"outcome: expected pass or fail, got {outcome!r}")
         if defect_class is not None and defect_class not in CLASSES:
@@ -1426,7 +1431,7 @@ class Workflow:
             data = self._load(tx, lot_id, "lot correct")
             lid = data.lot.lot_id
             person = self._person(tx, by)
-            structure = frame.structure_from_dict(data.lot.structure)
+            structure = self._structure_of(data.lot)
             number, typed = self._resolve_unit(structure, unit, data.lot.lot_id)
             effective = self._effective(data.results)
             mine = {cls: r for (u, cls), r in effective.items() if u == number}
@@ -1630,7 +1635,7 @@ class Workflow:
             failed = r.failed_attempts(data.lot.lot_id)
             events = r.events(data.lot.lot_id)
         lot = data.lot
-        structure = frame.structure_from_dict(lot.structure)
+        structure = self._structure_of(lot)
         tallies = self._tallies(data)
         samples = self._class_samples(data)
         sample_units = sorted({u for units in samples.values() for u in units})
@@ -1759,10 +1764,8 @@ class Workflow:
         return report
 
     def _history(self, r: Reader, lid: str) -> list[dict]:
-        from inspector import frame
-
         lot = r.lot(lid)
-        structure = frame.structure_from_dict(lot.structure)
+        structure = self._structure_of(lot)
         items: list[dict] = [{
             "entry": lot.id, "kind": "lot", "at": lot.recorded_at, "by": lot.by,
             "summary": f"{lot.lot_id}: {lot.product} from {lot.supplier}, {lot.quantity} units",
