@@ -37,20 +37,24 @@ def other_screen(make, then=None):
     return run_before
 
 
-async def _compare_two_plans(pilot):
-    await pilot.press("f8")  # keep the designed plan, then look at a tighter RQL beside it
+async def _until_recomputed(pilot, done) -> None:
+    """Wait until the plan screen has recomputed for what is on view and no
+    recompute is waiting for a pause in typing (at most 10 s). On a busy
+    machine the pause can outlast any fixed sleep."""
     screen = pilot.app.screen
-    screen.query_one("#rql").value = "3"
-    # The screen waits for a pause in typing before it recomputes; on a busy
-    # machine that can take longer than any fixed sleep, so wait for the
-    # figures of the new input to be on view (at most 10 s).
     for _ in range(200):
         await pilot.pause(0.05)
         await settle(pilot)
-        if screen.on_view is not None and screen.on_view.rql == pytest.approx(0.03):
-            break
-    else:
-        raise AssertionError("the plan screen did not recompute for RQL 3 %")
+        if screen._timer is None and screen.on_view is not None and done(screen.on_view):
+            return
+    raise AssertionError("the plan screen did not recompute")
+
+
+async def _compare_two_plans(pilot):
+    await _until_recomputed(pilot, lambda figures: True)  # the designed plan is on view
+    await pilot.press("f8")  # keep the designed plan, then look at a tighter RQL beside it
+    pilot.app.screen.query_one("#rql").value = "3"
+    await _until_recomputed(pilot, lambda figures: figures.rql == pytest.approx(0.03))
 
 
 async def _mark_two_pulled(pilot):
