@@ -323,19 +323,25 @@ def load_site(forms_dir: Path) -> Site:
     return site
 
 
-def _columns(sec: _Table, kind: str) -> tuple[Column, ...]:
-    raw = sec.get("columns")
-    allowed = COLUMNS[kind]
+def _items(sec: _Table, key: str, allowed, kind: str):
+    """Each entry of a section's ``columns`` or ``fields`` list as a checked
+    table, with its ``field`` name (one of ``allowed``)."""
+    raw = sec.get(key)
     if raw is None:
-        raise sec.error("columns", f"missing (a {kind} section lists its columns; known: {', '.join(allowed)})")
+        raise sec.error(key, f"missing (a {kind} section lists its {key}; known: {', '.join(allowed)})")
     if not isinstance(raw, list) or not raw:
-        raise sec.error("columns", "expected a non-empty list of {field = ..., caption = ...} tables")
-    out = []
+        raise sec.error(key, "expected a non-empty list of {field = ..., caption = ...} tables")
     for i, item in enumerate(raw, start=1):
-        col = _Table(sec.path, f"{sec.key('columns')}[{i}]", item)
-        name = col.text("field")
+        entry = _Table(sec.path, f"{sec.key(key)}[{i}]", item)
+        name = entry.text("field")
         if name not in allowed:
-            raise col.error("field", f"expected one of {', '.join(allowed)}, got {name!r}")
+            raise entry.error("field", f"expected one of {', '.join(allowed)}, got {name!r}")
+        yield entry, name
+
+
+def _columns(sec: _Table, kind: str) -> tuple[Column, ...]:
+    out = []
+    for col, name in _items(sec, "columns", COLUMNS[kind], kind):
         caption = col.text("caption", empty_ok=True)
         width = col.number("width", 0.1, 100, default=1.0)
         align = col.choice("align", ("left", "right", "centre"), "left")
@@ -345,18 +351,8 @@ def _columns(sec: _Table, kind: str) -> tuple[Column, ...]:
 
 
 def _fields(sec: _Table, kind: str) -> tuple[Field, ...]:
-    raw = sec.get("fields")
-    allowed = FIELDS[kind]
-    if raw is None:
-        raise sec.error("fields", f"missing (a {kind} section lists its fields; known: {', '.join(allowed)})")
-    if not isinstance(raw, list) or not raw:
-        raise sec.error("fields", "expected a non-empty list of {field = ..., caption = ...} tables")
     out = []
-    for i, item in enumerate(raw, start=1):
-        f = _Table(sec.path, f"{sec.key('fields')}[{i}]", item)
-        name = f.text("field")
-        if name not in allowed:
-            raise f.error("field", f"expected one of {', '.join(allowed)}, got {name!r}")
+    for f, name in _items(sec, "fields", FIELDS[kind], kind):
         caption = f.text("caption")
         f.done()
         out.append(Field(field=name, caption=caption))
